@@ -1,0 +1,196 @@
+//! The undisturbed ground: temperature against depth and time of year, before any pipe or
+//! borehole disturbs it. Closed form where it holds (homogeneous dry soil under a sinusoidal or
+//! constant surface), else the 1-D periodic finite-volume column with latent heat.
+
+use super::climate::SurfaceYear;
+use crate::engine::column::{self, ColumnLayer, ColumnOptions, PeriodicProfile};
+use crate::model::{DAY_S, Ground, Site, YEAR_S};
+use crate::physics::annual_wave::AnnualWave;
+use crate::results::ProfileRow;
+
+/// Depth to which the envelope is reported unless a study reaches deeper.
+pub const DEFAULT_PROFILE_DEPTH_M: f64 = 15.0;
+/// Spacing of the reported envelope rows.
+pub const PROFILE_ROW_SPACING_M: f64 = 0.25;
+
+/// How the undisturbed temperature was found.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Method {
+    ClosedForm,
+    Numerical,
+}
+
+impl Method {
+    pub fn name(self) -> &'static str {
+        match self {
+            Method::ClosedForm => "closed-form",
+            Method::Numerical => "numerical",
+        }
+    }
+}
+
+/// The undisturbed periodic ground temperature T(z, t).
+#[derive(Clone, Debug)]
+pub struct Undisturbed {
+    pub method: Method,
+    pub surface: SurfaceYear,
+    field: Field,
+    pub spin_up_years: usize,
+    pub energy_balance_relative_error: Option<f64>,
+}
+
+#[derive(Clone, Debug)]
+enum Field {
+    /// Homogeneous dry soil: the wave of Carslaw & Jaeger §2.6 plus the geothermal gradient.
+    Wave { wave: AnnualWave, diffusivity_m2_s: f64, gradient_k_per_m: f64 },
+    /// A surface held at one temperature: steady conduction of the geothermal flux.
+    Steady { surface_c: f64, ground: Ground },
+    Numerical(PeriodicProfile),
+}
+
+/// Options of the numerical column (defaults in [`ColumnOptions`] terms).
+pub fn column_options(depth_m: f64) -> ColumnOptions {
+    ColumnOptions {
+        depth_m,
+        cell_size_m: 0.02,
+        steps_per_year: 365 * 4,
+        max_years: 400,
+        tolerance_k: 1e-3,
+    }
+}
+
+/// Solves the undisturbed ground of a site down to at least `depth_m`.
+pub fn undisturbed(site: &Site, depth_m: f64) -> Result<Undisturbed, String> {
+    let surface = SurfaceYear::from_climate(&site.climate);
+    let ground = &site.ground;
+    let first = &ground.layers[0];
+    let field = match &surface {
+        SurfaceYear::Constant { temperature_c } => Field::Steady {
+            surface_c: *temperature_c,
+            ground: ground.clone(),
+        },
+        SurfaceYear::Wave { mean_c, amplitude_k, t_min_s } if ground.is_homogeneous_and_dry() => Field::Wave {
+            wave: AnnualWave {
+                mean_c: *mean_c,
+                amplitude_k: *amplitude_k,
+                coldest_day: t_min_s / DAY_S + 1.0,
+                period_s: YEAR_S,
+            },
+            diffusivity_m2_s: first.conductivity_w_m_k / first.heat_capacity_j_m3_k,
+            gradient_k_per_m: ground.geothermal_flux_w_m2 / first.conductivity_w_m_k,
+        },
+        _ => {
+            let layers: Vec<ColumnLayer> = ground.layers.iter().map(column_layer).collect();
+            let f = |t: f64| surface.surface_c(t);
+            let profile = column::periodic_profile(&layers, &f, ground.geothermal_flux_w_m2, &column_options(depth_m))?;
+            Field::Numerical(profile)
+        }
+    };
+    let (spin_up_years, energy) = match &field {
+        Field::Numerical(p) => (p.years_to_converge, Some(p.energy_balance_relative_error)),
+        _ => (0, None),
+    };
+    Ok(Undisturbed {
+        method: if matches!(field, Field::Numerical(_)) { Method::Numerical } else { Method::ClosedForm },
+        surface,
+        field,
+        spin_up_years,
+        energy_balance_relative_error: energy,
+    })
+}
+
+pub fn column_layer(l: &crate::model::SoilLayer) -> ColumnLayer {
+    ColumnLayer {
+        thickness_m: l.thickness_m.unwrap_or(f64::INFINITY),
+        conductivity: l.conductivity_w_m_k,
+        frozen_conductivity: l.frozen_conductivity_w_m_k,
+        heat_capacity: l.heat_capacity_j_m3_k,
+        frozen_heat_capacity: l.frozen_heat_capacity_j_m3_k,
+        latent_heat_j_m3: l.latent_heat_j_m3,
+        freezing_interval_k: l.freezing_interval_k,
+    }
+}
+
+impl Undisturbed {
+    /// Temperature at depth `z_m` and time `t_s` of the periodic year, °C.
+    pub fn at(&self, z_m: f64, t_s: f64) -> f64 {
+        match &self.field {
+            Field::Wave { wave, diffusivity_m2_s, gradient_k_per_m } => {
+                wave.ground_c(z_m, t_s, *diffusivity_m2_s, *gradient_k_per_m)
+            }
+            Field::Steady { surface_c, ground } => surface_c + geothermal_rise_k(ground, z_m),
+            Field::Numerical(p) => p.at(z_m, t_s),
+        }
+    }
+
+    /// Annual mean, lowest and highest temperature at each reported depth.
+    pub fn envelope(&self, depth_m: f64) -> Vec<ProfileRow> {
+        let n = (depth_m / PROFILE_ROW_SPACING_M).round() as usize;
+        (0..=n)
+            .map(|i| {
+                let z = i as f64 * PROFILE_ROW_SPACING_M;
+                let (mean_c, min_c, max_c) = self.envelope_at(z);
+                ProfileRow { depth_m: z, mean_c, min_c, max_c }
+            })
+            .collect()
+    }
+
+    /// (mean, min, max) over the year at one depth.
+    pub fn envelope_at(&self, z_m: f64) -> (f64, f64, f64) {
+        match &self.field {
+            Field::Wave { wave, diffusivity_m2_s, gradient_k_per_m } => {
+                wave.envelope(z_m, *diffusivity_m2_s, *gradient_k_per_m)
+            }
+            Field::Steady { .. } => {
+                let t = self.at(z_m, 0.0);
+                (t, t, t)
+            }
+            Field::Numerical(p) => {
+                let samples: Vec<f64> = (0..p.days).map(|d| p.at(z_m, (d as f64 + 0.5) * DAY_S)).collect();
+                let mean = samples.iter().sum::<f64>() / samples.len() as f64;
+                let min = samples.iter().cloned().fold(f64::INFINITY, f64::min);
+                let max = samples.iter().cloned().fold(f64::NEG_INFINITY, f64::max);
+                (mean, min, max)
+            }
+        }
+    }
+
+    /// Deepest depth reached by the 0 °C isotherm over the year (0 when the ground never freezes),
+    /// found on a 1 cm scan and refined linearly.
+    pub fn max_frost_depth_m(&self, depth_m: f64) -> f64 {
+        let step = 0.01;
+        let n = (depth_m / step).round() as usize;
+        let mins: Vec<f64> = (0..=n).map(|i| self.envelope_at(i as f64 * step).1).collect();
+        if mins[0] >= 0.0 {
+            return 0.0;
+        }
+        match mins.iter().rposition(|&t| t < 0.0) {
+            Some(i) if i < n => {
+                let (a, b) = (mins[i], mins[i + 1]);
+                (i as f64 + a / (a - b)) * step
+            }
+            _ => depth_m,
+        }
+    }
+
+    /// Surface temperature of the typical year, one value per day (at midday).
+    pub fn surface_daily_c(&self) -> Vec<f64> {
+        (0..365).map(|d| self.surface.surface_c((d as f64 + 0.5) * DAY_S)).collect()
+    }
+}
+
+/// Steady rise of temperature with depth carried by the geothermal flux through the layers, K.
+pub fn geothermal_rise_k(ground: &Ground, z_m: f64) -> f64 {
+    let mut rise = 0.0;
+    let mut top = 0.0;
+    for l in &ground.layers {
+        let bottom = top + l.thickness_m.unwrap_or(f64::INFINITY);
+        let within = (z_m.min(bottom) - top).max(0.0);
+        rise += ground.geothermal_flux_w_m2 * within / l.conductivity_w_m_k;
+        top = bottom;
+        if top >= z_m {
+            break;
+        }
+    }
+    rise
+}

@@ -1,0 +1,4 @@
+//! Pure functions of published methods: numbers in SI units in, numbers out. Nothing here knows
+//! the site model, YAML, files or plotting.
+
+pub mod annual_wave;

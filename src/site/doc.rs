@@ -1,0 +1,147 @@
+//! The site file as written: the Rust types that the JSON Schema is generated from and that the
+//! YAML is deserialised into. Physical fields are [`Q`] values, still in the user's units; the
+//! conversion to the SI model and the checks of physical sense live in `validate`.
+//!
+//! Doc comments here become the schema's descriptions: write them for the user.
+
+use super::quantity::*;
+use schemars::JsonSchema;
+use serde::Deserialize;
+use std::collections::BTreeMap;
+
+/// A burrow site file: where the site is, what drives its ground surface, its soil, and the
+/// studies to run.
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+#[schemars(title = "burrow site file")]
+pub struct SiteDoc {
+    pub site: SiteInfoDoc,
+    pub climate: ClimateDoc,
+    pub ground: GroundDoc,
+    /// The studies to run, in order. An empty list reports the undisturbed ground only.
+    #[serde(default)]
+    pub studies: Vec<StudyDoc>,
+}
+
+/// What the site is called.
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct SiteInfoDoc {
+    /// Free text shown on the report.
+    pub name: String,
+    /// Optional free text: the design question, the client, the project number.
+    #[serde(default)]
+    pub description: Option<String>,
+}
+
+/// What drives the temperature of the ground surface.
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(tag = "model", rename_all = "kebab-case", deny_unknown_fields)]
+pub enum ClimateDoc {
+    /// A sinusoidal annual wave of the ground-SURFACE temperature.
+    AnnualWave {
+        /// Annual mean ground-surface temperature.
+        mean: Q<Temperature>,
+        /// Half the annual swing of the surface temperature.
+        amplitude: Q<TemperatureDifference>,
+        /// Day of the year (1 = 1 January) on which the surface is coldest.
+        coldest_day: f64,
+    },
+    /// Twelve monthly mean AIR temperatures, January first, turned into surface temperatures by
+    /// the n-factors.
+    MonthlyAir {
+        /// Twelve monthly mean air temperatures, January to December.
+        air: Vec<Q<Temperature>>,
+        /// Ratio of the surface to the air freezing index (default 1: surface = air).
+        #[serde(default)]
+        n_factor_freezing: Option<f64>,
+        /// Ratio of the surface to the air thawing index (default 1: surface = air).
+        #[serde(default)]
+        n_factor_thawing: Option<f64>,
+    },
+    /// A CSV file of daily or hourly AIR temperatures, turned into surface temperatures by the
+    /// n-factors.
+    Series {
+        /// Path of the CSV file, relative to the site file. First column: the date
+        /// (`2031-01-15`) or date and time (`2031-01-15T06:00`); a header row names the columns.
+        file: String,
+        /// Header of the column holding the air temperature (default: the second column).
+        #[serde(default)]
+        column: Option<String>,
+        /// Unit of the temperatures in the file: `°C` (default), `°F` or `K`.
+        #[serde(default)]
+        unit: Option<String>,
+        /// Ratio of the surface to the air freezing index (default 1: surface = air).
+        #[serde(default)]
+        n_factor_freezing: Option<f64>,
+        /// Ratio of the surface to the air thawing index (default 1: surface = air).
+        #[serde(default)]
+        n_factor_thawing: Option<f64>,
+    },
+    /// The ground surface held at one temperature from t = 0 (a step; for checks).
+    Constant {
+        /// Surface temperature from t = 0 on.
+        temperature: Q<Temperature>,
+    },
+}
+
+/// The soil: layers from the surface down, and what comes up from below.
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct GroundDoc {
+    /// Temperature of the whole ground at t = 0 for transient studies. Default: the periodic
+    /// undisturbed state that the climate settles into.
+    #[serde(default)]
+    pub initial_temperature: Option<Q<Temperature>>,
+    /// Upward heat flux from the earth's interior (typically 0.04–0.1 W/m2). Default 0.
+    #[serde(default)]
+    pub geothermal_flux: Option<Q<HeatFlux>>,
+    /// Soil layers from the surface down; the last one extends to the bottom of every model.
+    pub layers: Vec<LayerDoc>,
+}
+
+/// One soil layer. Give `soil` (a preset: see `burrow materials`) or the properties, or both:
+/// properties given override the preset's.
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct LayerDoc {
+    /// A name for the report.
+    pub name: String,
+    /// Name of a soil preset whose properties this layer starts from.
+    #[serde(default)]
+    pub soil: Option<String>,
+    /// Layer thickness; may be left out for the last layer, which extends downward.
+    #[serde(default)]
+    pub thickness: Option<Q<Length>>,
+    /// Thermal conductivity of the unfrozen soil.
+    #[serde(default)]
+    pub conductivity: Option<Q<Conductivity>>,
+    /// Volumetric heat capacity of the unfrozen soil.
+    #[serde(default)]
+    pub heat_capacity: Option<Q<VolumetricHeatCapacity>>,
+    /// Thermal conductivity of the frozen soil (default: the unfrozen value).
+    #[serde(default)]
+    pub frozen_conductivity: Option<Q<Conductivity>>,
+    /// Volumetric heat capacity of the frozen soil (default: the unfrozen value).
+    #[serde(default)]
+    pub frozen_heat_capacity: Option<Q<VolumetricHeatCapacity>>,
+    /// Volumetric water content (0 to 1, or a percentage); its freezing releases latent heat.
+    /// 0 means the layer never freezes.
+    #[serde(default)]
+    pub water_content: Option<Q<Fraction>>,
+    /// Temperature interval below 0 °C over which the soil water freezes (default 0.5 K).
+    #[serde(default)]
+    pub freezing_interval: Option<Q<TemperatureDifference>>,
+}
+
+/// One study. Each kind has its own keys; `id` and `kind` are common to all.
+#[derive(Debug, Deserialize, JsonSchema)]
+pub struct StudyDoc {
+    /// A unique name for the study, used in the report and in file names.
+    pub id: String,
+    /// What the study computes: heat-loss, borefield, frost or cross-section.
+    pub kind: String,
+    /// The study's own keys.
+    #[serde(flatten)]
+    pub rest: BTreeMap<String, serde_json::Value>,
+}

@@ -1,0 +1,50 @@
+//! Starter site files printed by `burrow init`, and the table printed by `burrow materials`.
+
+use crate::materials::{fluids, soils};
+use std::fmt::Write;
+
+pub const DISTRICT_HEATING: &str = include_str!("../templates/district-heating.yaml");
+pub const BOREFIELD: &str = include_str!("../templates/borefield.yaml");
+pub const WATER_MAIN: &str = include_str!("../templates/water-main.yaml");
+
+/// Every template with its name, for tests and for `init`.
+pub const ALL: [(&str, &str); 3] = [
+    ("district-heating", DISTRICT_HEATING),
+    ("borefield", BOREFIELD),
+    ("water-main", WATER_MAIN),
+];
+
+/// The soil presets and antifreeze mixtures a site file may name.
+pub fn materials_table() -> String {
+    let mut s = String::from("Soil presets (a layer's `soil:`); unfrozen / frozen values\n\n");
+    let _ = writeln!(s, "{:<18} {:>15} {:>17} {:>8} {:>14}  source", "name", "k W/(m K)", "C MJ/(m3 K)", "water", "k range");
+    for p in soils::presets() {
+        let _ = writeln!(
+            s,
+            "{:<18} {:>6.2} / {:<6.2} {:>7.2} / {:<7.2} {:>7.0}% {:>6.2}–{:<6.2}  {}",
+            p.name,
+            p.conductivity_w_m_k,
+            p.frozen_conductivity_w_m_k,
+            p.heat_capacity_j_m3_k / 1e6,
+            p.frozen_heat_capacity_j_m3_k / 1e6,
+            p.water_content * 100.0,
+            p.conductivity_range_w_m_k.0,
+            p.conductivity_range_w_m_k.1,
+            p.source
+        );
+    }
+    s.push_str("\nAntifreeze mixtures (concentration as a mass fraction)\n\n");
+    let _ = writeln!(s, "{:<18} {:>14}  freezing point at 10 / 20 / 30 % by mass", "name", "max fraction");
+    for m in fluids::Mixture::all() {
+        let points: Vec<String> = [0.1, 0.2, 0.3]
+            .iter()
+            .map(|&x| match fluids::Fluid::new(m, if m == fluids::Mixture::Water { 0.0 } else { x }) {
+                Ok(f) if m != fluids::Mixture::Water || x == 0.1 => format!("{:.1} °C", f.freezing_point_c()),
+                Ok(_) => "—".into(),
+                Err(_) => "—".into(),
+            })
+            .collect();
+        let _ = writeln!(s, "{:<18} {:>13.0}%  {}", m.name(), m.max_mass_fraction() * 100.0, points.join(" / "));
+    }
+    s
+}
