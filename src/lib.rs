@@ -71,8 +71,12 @@ impl Progress for Silent {}
 /// left half-written).
 pub fn run(site_path: &Path, out_dir: &Path, progress: &dyn Progress) -> Result<RunSummary, RunError> {
     let loaded = site::load(site_path).map_err(RunError::Invalid)?;
-    let bytes = std::fs::read(site_path).map_err(|e| RunError::Failed(format!("cannot read {}: {e}", site_path.display())))?;
-    let input_file = site_path.file_name().map(|n| n.to_string_lossy().into_owned()).unwrap_or_default();
+    let bytes = std::fs::read(site_path)
+        .map_err(|e| RunError::Failed(format!("cannot read {}: {e}", site_path.display())))?;
+    let input_file = site_path
+        .file_name()
+        .map(|n| n.to_string_lossy().into_owned())
+        .unwrap_or_default();
     let results = compute(&loaded, &input_file, &bytes, progress).map_err(RunError::Failed)?;
     progress.stage("writing the report");
     report::write_bundle(&results, &loaded.site, out_dir).map_err(RunError::Failed)?;
@@ -85,12 +89,20 @@ pub fn run(site_path: &Path, out_dir: &Path, progress: &dyn Progress) -> Result<
 
 /// The default bundle folder for a site file: `out/<site-file-stem>/`.
 pub fn default_out_dir(site_path: &Path) -> PathBuf {
-    let stem = site_path.file_stem().map(|s| s.to_string_lossy().into_owned()).unwrap_or_else(|| "site".into());
+    let stem = site_path
+        .file_stem()
+        .map(|s| s.to_string_lossy().into_owned())
+        .unwrap_or_else(|| "site".into());
     Path::new("out").join(stem)
 }
 
 /// Solves every study of a validated site: model in, plain results out.
-pub fn compute(loaded: &Loaded, input_file: &str, input_bytes: &[u8], progress: &dyn Progress) -> Result<Results, String> {
+pub fn compute(
+    loaded: &Loaded,
+    input_file: &str,
+    input_bytes: &[u8],
+    progress: &dyn Progress,
+) -> Result<Results, String> {
     let site = &loaded.site;
     progress.stage("undisturbed ground temperature");
     let depth = ground::profile::DEFAULT_PROFILE_DEPTH_M.max(studies::deepest_point_m(site));
@@ -114,9 +126,12 @@ pub fn compute(loaded: &Loaded, input_file: &str, input_bytes: &[u8], progress: 
         study_results.push(result);
         warnings.append(&mut raised);
     }
-    warnings.sort_by(|a, b| b.level.cmp(&a.level));
+    warnings.sort_by_key(|w| std::cmp::Reverse(w.level));
     Ok(Results {
-        tool: Tool { name: "burrow".into(), version: VERSION.into() },
+        tool: Tool {
+            name: "burrow".into(),
+            version: VERSION.into(),
+        },
         site: SiteInfo {
             name: site.name.clone(),
             description: site.description.clone(),

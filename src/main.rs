@@ -30,8 +30,10 @@ struct Cli {
 #[derive(Subcommand)]
 enum Command {
     /// Run every study in a site file and write the report bundle
-    #[command(after_help = "Example:\n  burrow run site-examples/larchmere-district-heating.yaml\n  \
-        (writes out/larchmere-district-heating/report.html, results.json, plots and CSV)")]
+    #[command(
+        after_help = "Example:\n  burrow run site-examples/larchmere-district-heating.yaml\n  \
+        (writes out/larchmere-district-heating/report.html, results.json, plots and CSV)"
+    )]
     Run {
         /// The site file (YAML)
         site: PathBuf,
@@ -76,7 +78,12 @@ enum Template {
 fn main() -> ExitCode {
     let cli = Cli::parse();
     match cli.command {
-        Command::Run { site, out, quiet, strict } => run(site, out, quiet, strict),
+        Command::Run {
+            site,
+            out,
+            quiet,
+            strict,
+        } => run(site, out, quiet, strict),
         Command::Check { site } => check(site),
         Command::Schema => {
             print!("{}", burrow::site::schema::site_schema_text());
@@ -109,7 +116,10 @@ impl Spinner {
             return Spinner(None);
         }
         let bar = ProgressBar::new_spinner();
-        bar.set_style(ProgressStyle::with_template("{spinner} {elapsed:>4} {msg}").unwrap_or_else(|_| ProgressStyle::default_spinner()));
+        bar.set_style(
+            ProgressStyle::with_template("{spinner} {elapsed:>4} {msg}")
+                .unwrap_or_else(|_| ProgressStyle::default_spinner()),
+        );
         bar.enable_steady_tick(Duration::from_millis(120));
         Spinner(Some(bar))
     }
@@ -157,7 +167,11 @@ fn run(site: PathBuf, out: Option<PathBuf>, quiet: bool, strict: bool) -> ExitCo
             println!("wrote {}", summary.bundle.join("report.html").display());
             println!("{}", burrow::CAUTION);
             let danger = summary.results.warnings.iter().any(|w| w.level == Level::Danger);
-            if strict && danger { ExitCode::from(3) } else { ExitCode::SUCCESS }
+            if strict && danger {
+                ExitCode::from(3)
+            } else {
+                ExitCode::SUCCESS
+            }
         }
     }
 }

@@ -26,10 +26,7 @@ pub enum Climate {
         coldest_day: f64,
     },
     /// Monthly mean air temperatures, January first.
-    MonthlyAir {
-        air_c: [f64; 12],
-        n_factors: NFactors,
-    },
+    MonthlyAir { air_c: [f64; 12], n_factors: NFactors },
     /// Measured air temperatures at even steps from the first record.
     Series(AirSeries),
     /// Surface held at one temperature from t = 0.

@@ -17,7 +17,11 @@ pub const ALL: [(&str, &str); 3] = [
 /// The soil presets and antifreeze mixtures a site file may name.
 pub fn materials_table() -> String {
     let mut s = String::from("Soil presets (a layer's `soil:`); unfrozen / frozen values\n\n");
-    let _ = writeln!(s, "{:<18} {:>15} {:>17} {:>8} {:>14}  source", "name", "k W/(m K)", "C MJ/(m3 K)", "water", "k range");
+    let _ = writeln!(
+        s,
+        "{:<18} {:>15} {:>17} {:>8} {:>14}  source",
+        "name", "k W/(m K)", "C MJ/(m3 K)", "water", "k range"
+    );
     for p in soils::presets() {
         let _ = writeln!(
             s,
@@ -34,17 +38,31 @@ pub fn materials_table() -> String {
         );
     }
     s.push_str("\nAntifreeze mixtures (concentration as a mass fraction)\n\n");
-    let _ = writeln!(s, "{:<18} {:>14}  freezing point at 10 / 20 / 30 % by mass", "name", "max fraction");
+    let _ = writeln!(
+        s,
+        "{:<18} {:>14}  freezing point at 10 / 20 / 30 % by mass",
+        "name", "max fraction"
+    );
     for m in fluids::Mixture::all() {
         let points: Vec<String> = [0.1, 0.2, 0.3]
             .iter()
-            .map(|&x| match fluids::Fluid::new(m, if m == fluids::Mixture::Water { 0.0 } else { x }) {
-                Ok(f) if m != fluids::Mixture::Water || x == 0.1 => format!("{:.1} °C", f.freezing_point_c()),
-                Ok(_) => "—".into(),
-                Err(_) => "—".into(),
-            })
+            .map(
+                |&x| match fluids::Fluid::new(m, if m == fluids::Mixture::Water { 0.0 } else { x }) {
+                    Ok(f) if m != fluids::Mixture::Water || x == 0.1 => {
+                        format!("{:.1} °C", f.freezing_point_c())
+                    }
+                    Ok(_) => "—".into(),
+                    Err(_) => "—".into(),
+                },
+            )
             .collect();
-        let _ = writeln!(s, "{:<18} {:>13.0}%  {}", m.name(), m.max_mass_fraction() * 100.0, points.join(" / "));
+        let _ = writeln!(
+            s,
+            "{:<18} {:>13.0}%  {}",
+            m.name(),
+            m.max_mass_fraction() * 100.0,
+            points.join(" / ")
+        );
     }
     s
 }

@@ -38,7 +38,11 @@ fn scratch(name: &str) -> PathBuf {
 }
 
 fn burrow(args: &[&str], dir: &Path) -> (i32, String, String) {
-    let out = Command::new(env!("CARGO_BIN_EXE_burrow")).args(args).current_dir(dir).output().unwrap();
+    let out = Command::new(env!("CARGO_BIN_EXE_burrow"))
+        .args(args)
+        .current_dir(dir)
+        .output()
+        .unwrap();
     (
         out.status.code().unwrap_or(-1),
         String::from_utf8_lossy(&out.stdout).into_owned(),
@@ -54,7 +58,12 @@ fn try_site(name: &str, bytes: &[u8]) -> Outcome {
     let (run_code, _, stderr) = burrow(&["run", "site.yaml", "--out", "bundle"], &dir);
     assert_eq!(code, run_code, "check and run disagree for {name}");
     let bundle_written = dir.join("bundle").exists() || std::fs::read_dir(&dir).unwrap().count() > 1;
-    Outcome { code, stdout, stderr, bundle_written }
+    Outcome {
+        code,
+        stdout,
+        stderr,
+        bundle_written,
+    }
 }
 
 /// Asserts the file is refused with a message at `line:col` naming `path` and containing `words`.
@@ -66,7 +75,11 @@ fn refused(name: &str, bytes: &[u8], line: usize, col: usize, path: &str, words:
     let hit = o.stdout.lines().find(|l| l.starts_with(&wanted));
     let hit = hit.unwrap_or_else(|| panic!("{name}: no line starting `{wanted}` in\n{}", o.stdout));
     assert!(hit.contains(words), "{name}: `{hit}` does not say `{words}`");
-    assert!(o.stderr.contains(&wanted), "{name}: run did not report the problem on stderr:\n{}", o.stderr);
+    assert!(
+        o.stderr.contains(&wanted),
+        "{name}: run did not report the problem on stderr:\n{}",
+        o.stderr
+    );
     assert!(!o.stderr.contains("panicked"), "{name}: panic");
 }
 
@@ -86,7 +99,10 @@ fn a_missing_file_is_refused() {
     let dir = scratch("missing");
     let (code, stdout, _) = burrow(&["check", "nowhere.yaml"], &dir);
     assert_eq!(code, 1);
-    assert!(stdout.contains("nowhere.yaml:1:1: error") && stdout.contains("does not exist"), "{stdout}");
+    assert!(
+        stdout.contains("nowhere.yaml:1:1: error") && stdout.contains("does not exist"),
+        "{stdout}"
+    );
     let (code, _, stderr) = burrow(&["run", "nowhere.yaml", "--out", "b"], &dir);
     assert_eq!(code, 1);
     assert!(stderr.contains("does not exist"));
@@ -106,7 +122,11 @@ fn a_syntax_error_is_located() {
     let text = GOOD.replace("  amplitude: 10 K", "  amplitude: [10 K");
     let o = try_site("syntax", text.as_bytes());
     assert_eq!(o.code, 1);
-    assert!(o.stdout.contains("site.yaml:") && o.stdout.contains("malformed"), "{}", o.stdout);
+    assert!(
+        o.stdout.contains("site.yaml:") && o.stdout.contains("malformed"),
+        "{}",
+        o.stdout
+    );
     assert!(!o.bundle_written);
 }
 
@@ -116,7 +136,9 @@ fn an_alias_bomb_is_refused() {
     text.push_str("x0: &a0 [lol, lol, lol, lol, lol, lol, lol, lol, lol]\n");
     for i in 1..10 {
         let p = i - 1;
-        text.push_str(&format!("x{i}: &a{i} [*a{p}, *a{p}, *a{p}, *a{p}, *a{p}, *a{p}, *a{p}, *a{p}, *a{p}]\n"));
+        text.push_str(&format!(
+            "x{i}: &a{i} [*a{p}, *a{p}, *a{p}, *a{p}, *a{p}, *a{p}, *a{p}, *a{p}, *a{p}]\n"
+        ));
     }
     let o = try_site("alias-bomb", text.as_bytes());
     assert_eq!(o.code, 1);
@@ -126,45 +148,104 @@ fn an_alias_bomb_is_refused() {
 #[test]
 fn a_duplicate_key_is_refused() {
     let text = GOOD.replace("  coldest_day: 30\n", "  coldest_day: 30\n  mean: 9 °C\n");
-    refused("duplicate-key", text.as_bytes(), 8, 3, "(top level)", "appears twice");
+    refused(
+        "duplicate-key",
+        text.as_bytes(),
+        8,
+        3,
+        "(top level)",
+        "appears twice",
+    );
 }
 
 #[test]
 fn an_unknown_key_suggests_the_near_one() {
-    let text = GOOD.replace("      conductivity: 1.5 W/(m K)", "      conductivty: 1.5 W/(m K)");
-    refused("unknown-key", text.as_bytes(), 12, 7, "ground.layers[0].conductivty", "did you mean `conductivity`");
+    let text = GOOD.replace(
+        "      conductivity: 1.5 W/(m K)",
+        "      conductivty: 1.5 W/(m K)",
+    );
+    refused(
+        "unknown-key",
+        text.as_bytes(),
+        12,
+        7,
+        "ground.layers[0].conductivty",
+        "did you mean `conductivity`",
+    );
 }
 
 #[test]
 fn a_missing_section_is_refused() {
     let text = GOOD.replace("site:\n  name: Test plot\n", "");
-    refused("missing-site", text.as_bytes(), 1, 1, "site", "required key `site` is missing");
+    refused(
+        "missing-site",
+        text.as_bytes(),
+        1,
+        1,
+        "site",
+        "required key `site` is missing",
+    );
 }
 
 #[test]
 fn a_missing_property_without_preset_is_refused() {
     let text = GOOD.replace("      conductivity: 1.2\n", "");
-    refused("missing-k", text.as_bytes(), 15, 7, "ground.layers[1].conductivity", "give the thermal conductivity or name a `soil` preset");
+    refused(
+        "missing-k",
+        text.as_bytes(),
+        14,
+        7,
+        "ground.layers[1].conductivity",
+        "give the thermal conductivity or name a `soil` preset",
+    );
 }
 
 #[test]
 fn a_wrong_type_is_refused() {
     let text = GOOD.replace("coldest_day: 30", "coldest_day: thirty");
-    refused("wrong-type", text.as_bytes(), 7, 16, "climate.coldest_day", "expected a number");
+    refused(
+        "wrong-type",
+        text.as_bytes(),
+        7,
+        16,
+        "climate.coldest_day",
+        "expected a number",
+    );
     let text = GOOD.replace("thickness: 2 m", "thickness: [2, 3]");
-    refused("list-for-number", text.as_bytes(), 11, 18, "ground.layers[0].thickness", "expected a number or a quantity with a unit");
+    refused(
+        "list-for-number",
+        text.as_bytes(),
+        11,
+        18,
+        "ground.layers[0].thickness",
+        "expected a number or a quantity with a unit",
+    );
 }
 
 #[test]
 fn an_unknown_unit_is_refused() {
     let text = GOOD.replace("1.5 W/(m K)", "1.5 W/(m Q)");
-    refused("unknown-unit", text.as_bytes(), 12, 21, "ground.layers[0].conductivity", "Q");
+    refused(
+        "unknown-unit",
+        text.as_bytes(),
+        12,
+        21,
+        "ground.layers[0].conductivity",
+        "Q",
+    );
 }
 
 #[test]
 fn a_wrong_dimension_is_refused() {
     let text = GOOD.replace("thickness: 2 m", "thickness: 2 W/(m K)");
-    refused("wrong-dimension", text.as_bytes(), 11, 18, "ground.layers[0].thickness", "length");
+    refused(
+        "wrong-dimension",
+        text.as_bytes(),
+        11,
+        18,
+        "ground.layers[0].thickness",
+        "length",
+    );
 }
 
 #[test]
@@ -172,47 +253,116 @@ fn non_finite_numbers_are_refused() {
     let text = GOOD.replace("mean: 8 °C", "mean: .nan");
     refused("nan", text.as_bytes(), 5, 9, "climate.mean", "");
     let text = GOOD.replace("conductivity: 1.2", "conductivity: .inf");
-    refused("inf", text.as_bytes(), 15, 21, "ground.layers[1].conductivity", "");
+    refused(
+        "inf",
+        text.as_bytes(),
+        15,
+        21,
+        "ground.layers[1].conductivity",
+        "",
+    );
     let text = GOOD.replace("conductivity: 1.2", "conductivity: 1e999");
-    refused("overflow", text.as_bytes(), 15, 21, "ground.layers[1].conductivity", "");
+    refused(
+        "overflow",
+        text.as_bytes(),
+        15,
+        21,
+        "ground.layers[1].conductivity",
+        "",
+    );
 }
 
 #[test]
 fn non_positive_properties_are_refused() {
     let text = GOOD.replace("conductivity: 1.5 W/(m K)", "conductivity: -1.5 W/(m K)");
-    refused("negative-k", text.as_bytes(), 12, 21, "ground.layers[0].conductivity", "greater than zero");
+    refused(
+        "negative-k",
+        text.as_bytes(),
+        12,
+        21,
+        "ground.layers[0].conductivity",
+        "greater than zero",
+    );
     let text = GOOD.replace("heat_capacity: 2.5e6", "heat_capacity: 0");
-    refused("zero-c", text.as_bytes(), 16, 22, "ground.layers[1].heat_capacity", "greater than zero");
+    refused(
+        "zero-c",
+        text.as_bytes(),
+        16,
+        22,
+        "ground.layers[1].heat_capacity",
+        "greater than zero",
+    );
     let text = GOOD.replace("thickness: 2 m", "thickness: 0 m");
-    refused("zero-thickness", text.as_bytes(), 11, 18, "ground.layers[0].thickness", "greater than zero");
+    refused(
+        "zero-thickness",
+        text.as_bytes(),
+        11,
+        18,
+        "ground.layers[0].thickness",
+        "greater than zero",
+    );
 }
 
 #[test]
 fn a_missing_thickness_above_the_last_layer_is_refused() {
     let text = GOOD.replace("      thickness: 2 m\n", "");
-    refused("no-thickness", text.as_bytes(), 10, 7, "ground.layers[0].thickness", "only the last layer");
+    refused(
+        "no-thickness",
+        text.as_bytes(),
+        10,
+        7,
+        "ground.layers[0].thickness",
+        "only the last layer",
+    );
 }
 
 #[test]
 fn water_content_outside_zero_to_one_is_refused() {
-    let text = GOOD.replace("      heat_capacity: 2.5e6\n", "      heat_capacity: 2.5e6\n      water_content: 140 %\n");
-    refused("water", text.as_bytes(), 17, 22, "ground.layers[1].water_content", "between 0 and 1");
+    let text = GOOD.replace(
+        "      heat_capacity: 2.5e6\n",
+        "      heat_capacity: 2.5e6\n      water_content: 140 %\n",
+    );
+    refused(
+        "water",
+        text.as_bytes(),
+        17,
+        22,
+        "ground.layers[1].water_content",
+        "between 0 and 1",
+    );
 }
 
 #[test]
 fn a_negative_amplitude_and_a_bad_day_are_both_reported() {
-    let text = GOOD.replace("amplitude: 10 K", "amplitude: -10 K").replace("coldest_day: 30", "coldest_day: 400");
+    let text = GOOD
+        .replace("amplitude: 10 K", "amplitude: -10 K")
+        .replace("coldest_day: 30", "coldest_day: 400");
     let o = try_site("two-errors", text.as_bytes());
     assert_eq!(o.code, 1);
-    assert!(o.stdout.contains("site.yaml:6:14: error: climate.amplitude"), "{}", o.stdout);
-    assert!(o.stdout.contains("site.yaml:7:16: error: climate.coldest_day"), "{}", o.stdout);
+    assert!(
+        o.stdout.contains("site.yaml:6:14: error: climate.amplitude"),
+        "{}",
+        o.stdout
+    );
+    assert!(
+        o.stdout.contains("site.yaml:7:16: error: climate.coldest_day"),
+        "{}",
+        o.stdout
+    );
     assert!(o.stdout.contains("2 error(s)"));
 }
 
 #[test]
 fn an_unknown_climate_model_lists_the_models() {
     let text = GOOD.replace("model: annual-wave", "model: sine");
-    refused("model", text.as_bytes(), 4, 10, "climate.model", "annual-wave, monthly-air, series, constant");
+    refused(
+        "model",
+        text.as_bytes(),
+        4,
+        10,
+        "climate.model",
+        "annual-wave, monthly-air, series, constant",
+    );
 }
 
 #[test]
@@ -227,7 +377,14 @@ fn eleven_monthly_values_are_refused() {
 #[test]
 fn an_unknown_soil_preset_lists_the_presets() {
     let text = GOOD.replace("    - name: clay\n", "    - name: clay\n      soil: loam-ish\n");
-    refused("preset", text.as_bytes(), 15, 13, "ground.layers[1].soil", "moist-sand");
+    refused(
+        "preset",
+        text.as_bytes(),
+        15,
+        13,
+        "ground.layers[1].soil",
+        "moist-sand",
+    );
 }
 
 #[test]
@@ -244,15 +401,30 @@ fn duplicate_study_ids_and_unsupported_kinds_are_refused() {
     let text = GOOD.replace("studies: []\n", "studies:\n  - id: a\n    kind: frost\n  - id: a\n    kind: heat-loss\n  - id: b\n    kind: sunbathing\n");
     let o = try_site("studies", text.as_bytes());
     assert_eq!(o.code, 1);
-    assert!(o.stdout.contains("site.yaml:20:9: error: studies[1].id: the study id `a` is already used by studies[0]"), "{}", o.stdout);
-    assert!(o.stdout.contains("studies[0].kind: the study kind `frost` is not supported yet"), "{}", o.stdout);
-    assert!(o.stdout.contains("studies[2].kind: `sunbathing` is not a study kind"), "{}", o.stdout);
+    assert!(
+        o.stdout
+            .contains("site.yaml:20:9: error: studies[1].id: the study id `a` is already used by studies[0]"),
+        "{}",
+        o.stdout
+    );
+    assert!(
+        o.stdout
+            .contains("studies[0].kind: the study kind `frost` is not supported yet"),
+        "{}",
+        o.stdout
+    );
+    assert!(
+        o.stdout
+            .contains("studies[2].kind: `sunbathing` is not a study kind"),
+        "{}",
+        o.stdout
+    );
 }
 
 #[test]
 fn a_second_document_is_refused() {
     let text = format!("{GOOD}---\nsite: {{name: other}}\n");
-    refused("two-docs", text.as_bytes(), 19, 1, "(top level)", "second one");
+    refused("two-docs", text.as_bytes(), 18, 1, "(top level)", "second one");
 }
 
 #[test]
@@ -260,7 +432,12 @@ fn an_implausible_value_warns_but_runs() {
     let text = GOOD.replace("conductivity: 1.5 W/(m K)", "conductivity: 9 W/(m K)");
     let o = try_site("implausible", text.as_bytes());
     assert_eq!(o.code, 0, "{}", o.stderr);
-    assert!(o.stdout.contains("site.yaml:12:21: warning: ground.layers[0].conductivity"), "{}", o.stdout);
+    assert!(
+        o.stdout
+            .contains("site.yaml:12:21: warning: ground.layers[0].conductivity"),
+        "{}",
+        o.stdout
+    );
     assert!(o.stderr.contains("input.unusual_value"), "{}", o.stderr);
 }
 

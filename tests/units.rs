@@ -6,9 +6,9 @@
 //! factors NIST prints with 7 significant digits are checked to 6e-7 relative,
 //! the rounding of the printed value.
 
-use burrow::site::units::{format_quantity, parse_quantity, plain_number, Dimension, UnitError};
-use proptest::prelude::*;
 use Dimension as D;
+use burrow::site::units::{Dimension, UnitError, format_quantity, parse_quantity, plain_number};
+use proptest::prelude::*;
 
 const EXACT: f64 = 1e-12;
 /// Half a unit in the 7th significant digit of a NIST B.8 printed factor.
@@ -91,7 +91,7 @@ fn absolute_temperature_scales_follow_celsius_and_fahrenheit_definitions() {
     check("32 F", D::Temperature, 0.0, EXACT);
     check("212 degF", D::Temperature, 100.0, EXACT);
     check("-40 °F", D::Temperature, -40.0, EXACT); // the two scales cross at -40
-                                                   // SP 811 §4.2.1.1: t/°C = T/K − 273.15.
+    // SP 811 §4.2.1.1: t/°C = T/K − 273.15.
     check("273.15 K", D::Temperature, 0.0, EXACT);
     check("300 K", D::Temperature, 26.85, EXACT);
     // NIST B.8: t/°F = T/°R − 459.67, so −459.67 °F is absolute zero.
@@ -156,7 +156,7 @@ fn btu_it_equals_the_it_calorie_per_gram_kelvin_times_pound_times_fahrenheit_deg
     let btu = 4.1868 * 453.592_37 * 5.0 / 9.0;
     check("1 Btu", D::Energy, btu, EXACT);
     check("1 Btu", D::Energy, 1.055_056e3, NIST7); // NIST B.8 printed value
-                                                   // NIST B.8: Btu_IT/(lb·°F) = 4.1868E+03 J/(kg·K), exact.
+    // NIST B.8: Btu_IT/(lb·°F) = 4.1868E+03 J/(kg·K), exact.
     check("1 Btu/(lb °F)", D::SpecificHeatCapacity, 4186.8, EXACT);
     // NIST B.8: Btu_IT/h = 2.930711E-01 W.
     check("1 Btu/h", D::Power, 0.293_071_1, NIST7);
@@ -212,12 +212,7 @@ fn volume_and_mass_flow_and_velocity() {
     check("0.001 m3/s", D::VolumeFlow, 1e-3, EXACT);
     // NIST B.8 footnote: US gallon = 231 in³ = 3.785411784E-03 m³, exact.
     check("3 gpm", D::VolumeFlow, 3.0 * 3.785_411_784e-3 / 60.0, EXACT);
-    check(
-        "3 gal/min",
-        D::VolumeFlow,
-        3.0 * 3.785_411_784e-3 / 60.0,
-        EXACT,
-    );
+    check("3 gal/min", D::VolumeFlow, 3.0 * 3.785_411_784e-3 / 60.0, EXACT);
     check("1 gpm", D::VolumeFlow, 6.309_020e-5, NIST7); // NIST B.8: gal/min = 6.309020E-05 m³/s
     check("2 kg/s", D::MassFlow, 2.0, EXACT);
     check("3600 kg/h", D::MassFlow, 1.0, EXACT);
@@ -284,11 +279,7 @@ fn fractions_take_percent_and_dimensionless_takes_no_unit() {
 #[test]
 fn a_string_without_unit_means_the_plain_unit() {
     for dim in ALL {
-        assert_eq!(
-            parse_quantity(" 2.5 ", dim),
-            plain_number(2.5, dim),
-            "{dim:?}"
-        );
+        assert_eq!(parse_quantity(" 2.5 ", dim), plain_number(2.5, dim), "{dim:?}");
     }
 }
 
@@ -326,9 +317,7 @@ fn empty_and_non_numeric_values_are_rejected() {
     rejected("   ", D::Length);
     let msg = rejected("mm", D::Length);
     assert!(msg.contains("does not start with a number"), "{msg}");
-    for text in [
-        ".nan", "nan", "NaN", "inf", "-inf", ".inf", "-.inf", "Infinity",
-    ] {
+    for text in [".nan", "nan", "NaN", "inf", "-inf", ".inf", "-.inf", "Infinity"] {
         let msg = rejected(text, D::Length);
         assert!(msg.contains("not-a-number and infinite"), "{text}: {msg}");
     }
@@ -363,10 +352,7 @@ fn wrong_dimensions_name_what_was_given_and_what_is_expected() {
     let msg = rejected("3 m/K", D::Length);
     assert!(msg.contains("has units of m K-1"), "{msg}");
     let msg = rejected("5 Δ°C", D::Temperature);
-    assert!(
-        msg.contains("temperature difference, but a temperature"),
-        "{msg}"
-    );
+    assert!(msg.contains("temperature difference, but a temperature"), "{msg}");
     rejected("5 K/m", D::Temperature);
     rejected("5 °C·d", D::Temperature);
     rejected("5 J/(kg K)", D::VolumetricHeatCapacity);
@@ -418,11 +404,7 @@ fn formatting_echoes_inputs_in_the_plain_unit() {
         ("25 %", D::Fraction, "25 %"),
         ("1450 °C·d", D::DegreeDays, "1450 K·d"),
         ("0.0685 m2 K/W", D::ArealResistance, "0.0685 m2 K/W"),
-        (
-            "2.1 MJ/(m3 K)",
-            D::VolumetricHeatCapacity,
-            "2100000 J/(m3 K)",
-        ),
+        ("2.1 MJ/(m3 K)", D::VolumetricHeatCapacity, "2100000 J/(m3 K)"),
     ];
     for (text, dim, want) in cases {
         let v = parse_quantity(text, dim).unwrap();

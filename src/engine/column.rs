@@ -45,7 +45,7 @@
 //! index `i` of the output is the instant `t = i·86 400 s` (00:00 on day of year
 //! `i + 1`), as in [`crate::physics::annual_wave`].
 
-use crate::physics::annual_wave::{damping_depth_m, AnnualWave, DAY_S, YEAR_S};
+use crate::physics::annual_wave::{AnnualWave, DAY_S, YEAR_S, damping_depth_m};
 
 /// Default width (K) of the freezing range below 0 °C.
 pub const DEFAULT_FREEZING_INTERVAL_K: f64 = 0.5;
@@ -176,8 +176,7 @@ impl ColumnOptions {
                 self.depth_m
             ));
         }
-        if !(self.cell_size_m.is_finite() && self.cell_size_m > 0.0)
-            || self.cell_size_m > 0.25 * self.depth_m
+        if !(self.cell_size_m.is_finite() && self.cell_size_m > 0.0) || self.cell_size_m > 0.25 * self.depth_m
         {
             return Err(format!(
                 "cell_size_m is {}; it must be positive and at most a quarter of depth_m ({} m)",
@@ -192,8 +191,7 @@ impl ColumnOptions {
         }
         if self.max_years < 2 {
             return Err(
-                "max_years must be at least 2, because convergence compares two consecutive years"
-                    .into(),
+                "max_years must be at least 2, because convergence compares two consecutive years".into(),
             );
         }
         if !(self.tolerance_k.is_finite() && self.tolerance_k > 0.0) {
@@ -263,11 +261,7 @@ impl PeriodicProfile {
         }
         let upper = self.depths_m.partition_point(|&z| z < depth_m).max(1);
         let (z0, z1) = (self.depths_m[upper - 1], self.depths_m[upper]);
-        let wz = if z1 > z0 {
-            (depth_m - z0) / (z1 - z0)
-        } else {
-            0.0
-        };
+        let wz = if z1 > z0 { (depth_m - z0) / (z1 - z0) } else { 0.0 };
         let day_f = t_s.rem_euclid(YEAR_S) / DAY_S;
         let d0 = (day_f.floor() as usize) % days;
         let d1 = (d0 + 1) % days;
@@ -400,12 +394,9 @@ pub fn periodic_profile(
 
     let max_diffusivity = layers
         .iter()
-        .map(|l| {
-            (l.conductivity / l.heat_capacity).max(l.frozen_conductivity / l.frozen_heat_capacity)
-        })
+        .map(|l| (l.conductivity / l.heat_capacity).max(l.frozen_conductivity / l.frozen_heat_capacity))
         .fold(0.0, f64::max);
-    let bottom_m =
-        (2.0 * opts.depth_m).max(opts.depth_m + 5.0 * damping_depth_m(max_diffusivity, YEAR_S));
+    let bottom_m = (2.0 * opts.depth_m).max(opts.depth_m + 5.0 * damping_depth_m(max_diffusivity, YEAR_S));
     let grid = Grid::build(layers, opts.cell_size_m, bottom_m, &[opts.depth_m])?;
 
     let initial = initial_temperatures(&grid, layers, &surface_at_step, dt, geothermal_flux_w_m2);
@@ -423,8 +414,7 @@ pub fn periodic_profile(
         for n in 0..steps {
             // Day `d` lies in this step when n·365 < d·steps ≤ (n+1)·365.
             let next_day = days.len();
-            let day_in_step =
-                next_day < DAYS_PER_YEAR && next_day * steps <= (n + 1) * DAYS_PER_YEAR;
+            let day_in_step = next_day < DAYS_PER_YEAR && next_day * steps <= (n + 1) * DAYS_PER_YEAR;
             let before = day_in_step.then(|| column.t.clone());
             let flux = column.step(dt, surface_at_step[(n + 1) % steps], geothermal_flux_w_m2)?;
             heat_in += dt * (flux.surface_w_m2 + flux.bottom_w_m2);
@@ -504,11 +494,7 @@ fn validate_layers(layers: &[ColumnLayer]) -> Result<(), String> {
         .try_for_each(|(i, l)| l.validate(i, i == last))
 }
 
-fn sample_surface(
-    surface_c: &dyn Fn(f64) -> f64,
-    count: usize,
-    interval_s: f64,
-) -> Result<Vec<f64>, String> {
+fn sample_surface(surface_c: &dyn Fn(f64) -> f64, count: usize, interval_s: f64) -> Result<Vec<f64>, String> {
     (0..count)
         .map(|n| {
             let t_s = n as f64 * interval_s;
@@ -580,8 +566,7 @@ fn first_harmonic(samples: &[f64], dt: f64) -> AnnualWave {
     }
     // mean + a·cos(ωt) + b·sin(ωt) = mean − R·cos(ωt − φ + π) with φ = atan2(b, a).
     let amplitude = a.hypot(b);
-    let coldest_s =
-        (b.atan2(a) + std::f64::consts::PI).rem_euclid(2.0 * std::f64::consts::PI) / omega;
+    let coldest_s = (b.atan2(a) + std::f64::consts::PI).rem_euclid(2.0 * std::f64::consts::PI) / omega;
     AnnualWave {
         mean_c: mean,
         amplitude_k: amplitude,
@@ -846,11 +831,7 @@ impl Column {
             .map(|&l| Material::from_layer(&layers[l]))
             .collect();
         let n = cells.len();
-        let h = cells
-            .iter()
-            .zip(t_c)
-            .map(|(m, &t)| m.enthalpy_j_m3(t))
-            .collect();
+        let h = cells.iter().zip(t_c).map(|(m, &t)| m.enthalpy_j_m3(t)).collect();
         Self {
             widths_m: grid.widths_m.clone(),
             linear: cells.iter().all(Material::is_linear),
@@ -875,13 +856,7 @@ impl Column {
 
     /// Adds `shift_k` to every cell temperature and resets the enthalpy to match.
     fn shift_temperatures(&mut self, shift_k: &[f64]) {
-        for (((t, h), m), &dt) in self
-            .t
-            .iter_mut()
-            .zip(&mut self.h)
-            .zip(&self.cells)
-            .zip(shift_k)
-        {
+        for (((t, h), m), &dt) in self.t.iter_mut().zip(&mut self.h).zip(&self.cells).zip(shift_k) {
             *t += dt;
             *h = m.enthalpy_j_m3(*t);
         }
@@ -940,12 +915,7 @@ impl Column {
 
     /// One backward-Euler step of length `dt_s` with the surface held at
     /// `surface_c` and `bottom_flux_w_m2` entering at the bottom.
-    fn step(
-        &mut self,
-        dt_s: f64,
-        surface_c: f64,
-        bottom_flux_w_m2: f64,
-    ) -> Result<StepFlux, String> {
+    fn step(&mut self, dt_s: f64, surface_c: f64, bottom_flux_w_m2: f64) -> Result<StepFlux, String> {
         let n = self.cells.len();
         let h_old = self.h.clone();
         for iteration in 0..MAX_ITERATIONS {
@@ -961,11 +931,7 @@ impl Column {
                 } else {
                     self.face_conductance(i - 1)
                 };
-                let below = if i + 1 < n {
-                    self.face_conductance(i)
-                } else {
-                    0.0
-                };
+                let below = if i + 1 < n { self.face_conductance(i) } else { 0.0 };
                 self.lower[i] = if i == 0 { 0.0 } else { -above };
                 self.upper[i] = -below;
                 self.diag[i] = storage * self.cap[i] + above + below;
@@ -990,9 +956,7 @@ impl Column {
                 self.t[i] = t_new;
             }
             if !change.is_finite() {
-                return Err(
-                    "the column temperatures became non-finite; check the layer properties".into(),
-                );
+                return Err("the column temperatures became non-finite; check the layer properties".into());
             }
             if self.linear || (iteration > 0 && change < ITERATION_TOLERANCE_K) {
                 return Ok(StepFlux {
@@ -1061,14 +1025,8 @@ impl DriftExtrapolator {
         });
         self.previous_mean = Some(mean_c.to_vec());
         let change = change?;
-        let dot = |a: &[f64], b: &[f64]| -> f64 {
-            weights
-                .iter()
-                .zip(a)
-                .zip(b)
-                .map(|((w, x), y)| w * x * y)
-                .sum()
-        };
+        let dot =
+            |a: &[f64], b: &[f64]| -> f64 { weights.iter().zip(a).zip(b).map(|((w, x), y)| w * x * y).sum() };
         let mut shift = None;
         let mut ratio_now = None;
         if let Some(previous) = &self.previous_change {
@@ -1120,10 +1078,7 @@ mod tests {
 
     #[test]
     fn grid_puts_interfaces_and_report_depth_on_faces() {
-        let layers = [
-            ColumnLayer::dry(0.77, 1.0, 2e6),
-            ColumnLayer::dry(1.0, 2.0, 2e6),
-        ];
+        let layers = [ColumnLayer::dry(0.77, 1.0, 2e6), ColumnLayer::dry(1.0, 2.0, 2e6)];
         let g = Grid::build(&layers, 0.02, 30.0, &[15.0]).unwrap();
         for z in [0.77, 15.0, 30.0] {
             assert!(g.faces_m.iter().any(|&f| (f - z).abs() < 1e-12), "{z}");

@@ -11,18 +11,37 @@ use std::f64::consts::PI;
 /// The surface temperature of the periodic (typical) year, as a function of time.
 #[derive(Clone, Debug, PartialEq)]
 pub enum SurfaceYear {
-    Wave { mean_c: f64, amplitude_k: f64, t_min_s: f64 },
+    Wave {
+        mean_c: f64,
+        amplitude_k: f64,
+        t_min_s: f64,
+    },
     /// A trigonometric series in the phase τ = t/YEAR of the AIR temperature, then n-factors.
-    Harmonics { mean_c: f64, cos: [f64; 6], sin: [f64; 6], n: NFactors },
+    Harmonics {
+        mean_c: f64,
+        cos: [f64; 6],
+        sin: [f64; 6],
+        n: NFactors,
+    },
     /// Air temperatures at even steps over one year (periodic), then n-factors.
-    Samples { step_s: f64, air_c: Vec<f64>, n: NFactors },
-    Constant { temperature_c: f64 },
+    Samples {
+        step_s: f64,
+        air_c: Vec<f64>,
+        n: NFactors,
+    },
+    Constant {
+        temperature_c: f64,
+    },
 }
 
 impl SurfaceYear {
     pub fn from_climate(climate: &Climate) -> Self {
         match climate {
-            Climate::AnnualWave { mean_c, amplitude_k, coldest_day } => SurfaceYear::Wave {
+            Climate::AnnualWave {
+                mean_c,
+                amplitude_k,
+                coldest_day,
+            } => SurfaceYear::Wave {
                 mean_c: *mean_c,
                 amplitude_k: *amplitude_k,
                 t_min_s: (coldest_day - 1.0) * DAY_S,
@@ -33,17 +52,23 @@ impl SurfaceYear {
                 air_c: typical_year(series),
                 n: series.n_factors,
             },
-            Climate::Constant { temperature_c } => SurfaceYear::Constant { temperature_c: *temperature_c },
+            Climate::Constant { temperature_c } => SurfaceYear::Constant {
+                temperature_c: *temperature_c,
+            },
         }
     }
 
     /// Surface temperature at time `t_s` (periodic with one year), °C.
     pub fn surface_c(&self, t_s: f64) -> f64 {
         match self {
-            SurfaceYear::Wave { mean_c, amplitude_k, t_min_s } => {
-                mean_c - amplitude_k * (2.0 * PI * (t_s - t_min_s) / YEAR_S).cos()
+            SurfaceYear::Wave {
+                mean_c,
+                amplitude_k,
+                t_min_s,
+            } => mean_c - amplitude_k * (2.0 * PI * (t_s - t_min_s) / YEAR_S).cos(),
+            SurfaceYear::Harmonics { n, .. } | SurfaceYear::Samples { n, .. } => {
+                apply_n_factors(self.air_c(t_s), *n)
             }
-            SurfaceYear::Harmonics { n, .. } | SurfaceYear::Samples { n, .. } => apply_n_factors(self.air_c(t_s), *n),
             SurfaceYear::Constant { temperature_c } => *temperature_c,
         }
     }
@@ -80,7 +105,11 @@ impl SurfaceYear {
 
 /// TM 5-852-6 n-factors: surface = n_f·air below 0 °C, n_t·air above.
 pub fn apply_n_factors(air_c: f64, n: NFactors) -> f64 {
-    if air_c < 0.0 { n.freezing * air_c } else { n.thawing * air_c }
+    if air_c < 0.0 {
+        n.freezing * air_c
+    } else {
+        n.thawing * air_c
+    }
 }
 
 /// The trigonometric series whose mean over each twelfth of the year equals that month's mean.
@@ -122,14 +151,20 @@ pub fn typical_year(series: &AirSeries) -> Vec<f64> {
         count[slot] += 1;
     }
     // The file holds at least one whole year (checked on reading), so every slot has a value.
-    sum.iter().zip(&count).map(|(s, &c)| s / c.max(1) as f64).collect()
+    sum.iter()
+        .zip(&count)
+        .map(|(s, &c)| s / c.max(1) as f64)
+        .collect()
 }
 
 #[cfg(test)]
 mod tests {
     use super::*;
 
-    const N1: NFactors = NFactors { freezing: 1.0, thawing: 1.0 };
+    const N1: NFactors = NFactors {
+        freezing: 1.0,
+        thawing: 1.0,
+    };
 
     /// Mean over [a, b] by composite Simpson's rule with 2000 panels (independent of the algebra).
     fn mean_over(f: impl Fn(f64) -> f64, a: f64, b: f64) -> f64 {
@@ -144,7 +179,9 @@ mod tests {
 
     #[test]
     fn monthly_interpolation_reproduces_every_monthly_mean() {
-        let air = [-9.5, -8.1, -3.0, 4.2, 10.8, 15.5, 17.9, 16.6, 11.7, 5.4, -0.8, -6.9];
+        let air = [
+            -9.5, -8.1, -3.0, 4.2, 10.8, 15.5, 17.9, 16.6, 11.7, 5.4, -0.8, -6.9,
+        ];
         let year = monthly_harmonics(&air, N1);
         for (j, m) in air.iter().enumerate() {
             let a = j as f64 * YEAR_S / 12.0;
@@ -155,7 +192,11 @@ mod tests {
 
     #[test]
     fn wave_is_coldest_on_the_given_day() {
-        let c = Climate::AnnualWave { mean_c: 8.0, amplitude_k: 10.0, coldest_day: 30.0 };
+        let c = Climate::AnnualWave {
+            mean_c: 8.0,
+            amplitude_k: 10.0,
+            coldest_day: 30.0,
+        };
         let y = SurfaceYear::from_climate(&c);
         assert!((y.surface_c(29.0 * DAY_S) - (-2.0)).abs() < 1e-12);
         assert!((y.surface_c(29.0 * DAY_S + YEAR_S / 2.0) - 18.0).abs() < 1e-12);
@@ -163,7 +204,10 @@ mod tests {
 
     #[test]
     fn n_factors_scale_freezing_and_thawing_separately() {
-        let n = NFactors { freezing: 0.5, thawing: 1.5 };
+        let n = NFactors {
+            freezing: 0.5,
+            thawing: 1.5,
+        };
         assert_eq!(apply_n_factors(-10.0, n), -5.0);
         assert_eq!(apply_n_factors(10.0, n), 15.0);
     }

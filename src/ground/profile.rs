@@ -42,9 +42,16 @@ pub struct Undisturbed {
 #[derive(Clone, Debug)]
 enum Field {
     /// Homogeneous dry soil: the wave of Carslaw & Jaeger §2.6 plus the geothermal gradient.
-    Wave { wave: AnnualWave, diffusivity_m2_s: f64, gradient_k_per_m: f64 },
+    Wave {
+        wave: AnnualWave,
+        diffusivity_m2_s: f64,
+        gradient_k_per_m: f64,
+    },
     /// A surface held at one temperature: steady conduction of the geothermal flux.
-    Steady { surface_c: f64, ground: Ground },
+    Steady {
+        surface_c: f64,
+        ground: Ground,
+    },
     Numerical(PeriodicProfile),
 }
 
@@ -69,7 +76,11 @@ pub fn undisturbed(site: &Site, depth_m: f64) -> Result<Undisturbed, String> {
             surface_c: *temperature_c,
             ground: ground.clone(),
         },
-        SurfaceYear::Wave { mean_c, amplitude_k, t_min_s } if ground.is_homogeneous_and_dry() => Field::Wave {
+        SurfaceYear::Wave {
+            mean_c,
+            amplitude_k,
+            t_min_s,
+        } if ground.is_homogeneous_and_dry() => Field::Wave {
             wave: AnnualWave {
                 mean_c: *mean_c,
                 amplitude_k: *amplitude_k,
@@ -82,7 +93,8 @@ pub fn undisturbed(site: &Site, depth_m: f64) -> Result<Undisturbed, String> {
         _ => {
             let layers: Vec<ColumnLayer> = ground.layers.iter().map(column_layer).collect();
             let f = |t: f64| surface.surface_c(t);
-            let profile = column::periodic_profile(&layers, &f, ground.geothermal_flux_w_m2, &column_options(depth_m))?;
+            let profile =
+                column::periodic_profile(&layers, &f, ground.geothermal_flux_w_m2, &column_options(depth_m))?;
             Field::Numerical(profile)
         }
     };
@@ -91,7 +103,11 @@ pub fn undisturbed(site: &Site, depth_m: f64) -> Result<Undisturbed, String> {
         _ => (0, None),
     };
     Ok(Undisturbed {
-        method: if matches!(field, Field::Numerical(_)) { Method::Numerical } else { Method::ClosedForm },
+        method: if matches!(field, Field::Numerical(_)) {
+            Method::Numerical
+        } else {
+            Method::ClosedForm
+        },
         surface,
         field,
         spin_up_years,
@@ -115,9 +131,11 @@ impl Undisturbed {
     /// Temperature at depth `z_m` and time `t_s` of the periodic year, °C.
     pub fn at(&self, z_m: f64, t_s: f64) -> f64 {
         match &self.field {
-            Field::Wave { wave, diffusivity_m2_s, gradient_k_per_m } => {
-                wave.ground_c(z_m, t_s, *diffusivity_m2_s, *gradient_k_per_m)
-            }
+            Field::Wave {
+                wave,
+                diffusivity_m2_s,
+                gradient_k_per_m,
+            } => wave.ground_c(z_m, t_s, *diffusivity_m2_s, *gradient_k_per_m),
             Field::Steady { surface_c, ground } => surface_c + geothermal_rise_k(ground, z_m),
             Field::Numerical(p) => p.at(z_m, t_s),
         }
@@ -130,7 +148,12 @@ impl Undisturbed {
             .map(|i| {
                 let z = i as f64 * PROFILE_ROW_SPACING_M;
                 let (mean_c, min_c, max_c) = self.envelope_at(z);
-                ProfileRow { depth_m: z, mean_c, min_c, max_c }
+                ProfileRow {
+                    depth_m: z,
+                    mean_c,
+                    min_c,
+                    max_c,
+                }
             })
             .collect()
     }
@@ -138,9 +161,11 @@ impl Undisturbed {
     /// (mean, min, max) over the year at one depth.
     pub fn envelope_at(&self, z_m: f64) -> (f64, f64, f64) {
         match &self.field {
-            Field::Wave { wave, diffusivity_m2_s, gradient_k_per_m } => {
-                wave.envelope(z_m, *diffusivity_m2_s, *gradient_k_per_m)
-            }
+            Field::Wave {
+                wave,
+                diffusivity_m2_s,
+                gradient_k_per_m,
+            } => wave.envelope(z_m, *diffusivity_m2_s, *gradient_k_per_m),
             Field::Steady { .. } => {
                 let t = self.at(z_m, 0.0);
                 (t, t, t)
@@ -175,7 +200,9 @@ impl Undisturbed {
 
     /// Surface temperature of the typical year, one value per day (at midday).
     pub fn surface_daily_c(&self) -> Vec<f64> {
-        (0..365).map(|d| self.surface.surface_c((d as f64 + 0.5) * DAY_S)).collect()
+        (0..365)
+            .map(|d| self.surface.surface_c((d as f64 + 0.5) * DAY_S))
+            .collect()
     }
 }
 

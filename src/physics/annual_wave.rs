@@ -49,12 +49,7 @@ pub struct AnnualWave {
 
 impl AnnualWave {
     /// Checked constructor: all values finite, amplitude ≥ 0, period > 0.
-    pub fn new(
-        mean_c: f64,
-        amplitude_k: f64,
-        coldest_day: f64,
-        period_s: f64,
-    ) -> Result<Self, String> {
+    pub fn new(mean_c: f64, amplitude_k: f64, coldest_day: f64, period_s: f64) -> Result<Self, String> {
         if !mean_c.is_finite() || !coldest_day.is_finite() {
             return Err("the mean temperature and coldest day must be finite numbers".into());
         }
@@ -107,25 +102,14 @@ impl AnnualWave {
     /// `T = T_mean + g·z − A·exp(−z/d)·cos(ω(t − t_min) − z/d)`,
     /// Carslaw & Jaeger 1959 §2.6; Kusuda & Achenbach 1965.
     /// A non-positive diffusivity gives NaN.
-    pub fn ground_c(
-        &self,
-        z_m: f64,
-        t_s: f64,
-        diffusivity_m2_s: f64,
-        gradient_k_per_m: f64,
-    ) -> f64 {
+    pub fn ground_c(&self, z_m: f64, t_s: f64, diffusivity_m2_s: f64, gradient_k_per_m: f64) -> f64 {
         let d = damping_depth_m(diffusivity_m2_s, self.period_s);
         self.mean_c + gradient_k_per_m * z_m + self.periodic_part_k(t_s, z_m / d)
     }
 
     /// Annual `(mean, min, max)` temperature (°C) at depth `z_m` (m):
     /// mean `T_mean + g·z`, swing `±A·exp(−z/d)` (Carslaw & Jaeger 1959 §2.6).
-    pub fn envelope(
-        &self,
-        z_m: f64,
-        diffusivity_m2_s: f64,
-        gradient_k_per_m: f64,
-    ) -> (f64, f64, f64) {
+    pub fn envelope(&self, z_m: f64, diffusivity_m2_s: f64, gradient_k_per_m: f64) -> (f64, f64, f64) {
         let d = damping_depth_m(diffusivity_m2_s, self.period_s);
         let mean = self.mean_c + gradient_k_per_m * z_m;
         let swing = self.amplitude_k * (-z_m / d).exp();

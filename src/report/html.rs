@@ -1,6 +1,9 @@
 //! `report.html`: one self-contained page (inline CSS and SVG, no scripts, no network
 //! resources). Every text that comes from the user is escaped.
 
+// HTML is written line by line; a trailing `\n` in `write!` keeps the markup readable.
+#![allow(clippy::write_with_newline)]
+
 use super::Figure;
 use super::plot::{Band, LinePlot, Series, SeriesStyle};
 use crate::model::{Climate, Site};
@@ -92,7 +95,11 @@ fn warnings(h: &mut String, r: &Results) {
             Level::Caution => ("caution", "caution"),
             Level::Info => ("info", "note"),
         };
-        let study = w.study.as_deref().map(|s| format!(" · study {}", esc(s))).unwrap_or_default();
+        let study = w
+            .study
+            .as_deref()
+            .map(|s| format!(" · study {}", esc(s)))
+            .unwrap_or_default();
         let _ = write!(
             h,
             "<div class=\"warning {class}\"><span class=\"level\">{word}</span><code>{}</code>{study}<br>{}</div>\n",
@@ -105,7 +112,11 @@ fn warnings(h: &mut String, r: &Results) {
 fn summary(h: &mut String, r: &Results) {
     let g = &r.ground;
     let surface_min = g.surface_daily_c.iter().cloned().fold(f64::INFINITY, f64::min);
-    let surface_max = g.surface_daily_c.iter().cloned().fold(f64::NEG_INFINITY, f64::max);
+    let surface_max = g
+        .surface_daily_c
+        .iter()
+        .cloned()
+        .fold(f64::NEG_INFINITY, f64::max);
     let deepest = g.profile.last().map(|p| p.depth_m).unwrap_or(0.0);
     let _ = write!(
         h,
@@ -118,7 +129,11 @@ fn summary(h: &mut String, r: &Results) {
         g.surface_mean_c,
         surface_min,
         surface_max,
-        if g.max_frost_depth_m > 0.0 { format!("{:.2} m", g.max_frost_depth_m) } else { "none".into() },
+        if g.max_frost_depth_m > 0.0 {
+            format!("{:.2} m", g.max_frost_depth_m)
+        } else {
+            "none".into()
+        },
         g.profile.last().map(|p| p.mean_c).unwrap_or(f64::NAN),
         r.studies.len()
     );
@@ -128,7 +143,11 @@ fn inputs(h: &mut String, site: &Site) {
     let _ = write!(h, "<h2 id=\"inputs\">Inputs</h2>\n<h3>Climate</h3>\n");
     let t = |v| esc(&format_quantity(v, Dimension::Temperature));
     match &site.climate {
-        Climate::AnnualWave { mean_c, amplitude_k, coldest_day } => {
+        Climate::AnnualWave {
+            mean_c,
+            amplitude_k,
+            coldest_day,
+        } => {
             let _ = write!(
                 h,
                 "<p>Annual sinusoidal wave of the ground-surface temperature: mean {}, amplitude {}, coldest on day {coldest_day} of the year.</p>\n",
@@ -137,8 +156,14 @@ fn inputs(h: &mut String, site: &Site) {
             );
         }
         Climate::MonthlyAir { air_c, n_factors } => {
-            let _ = write!(h, "<p>Monthly mean air temperatures, turned into surface temperatures by the n-factors (freezing {}, thawing {}); the monthly values are joined by a trigonometric series that keeps each month's mean.</p>\n<table><tr>", n_factors.freezing, n_factors.thawing);
-            for m in ["Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec"] {
+            let _ = write!(
+                h,
+                "<p>Monthly mean air temperatures, turned into surface temperatures by the n-factors (freezing {}, thawing {}); the monthly values are joined by a trigonometric series that keeps each month's mean.</p>\n<table><tr>",
+                n_factors.freezing, n_factors.thawing
+            );
+            for m in [
+                "Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec",
+            ] {
                 let _ = write!(h, "<th class=\"n\">{m}</th>");
             }
             let _ = write!(h, "</tr><tr>");
@@ -161,25 +186,38 @@ fn inputs(h: &mut String, site: &Site) {
             );
         }
         Climate::Constant { temperature_c } => {
-            let _ = write!(h, "<p>Ground surface held at {} from the start.</p>\n", t(*temperature_c));
+            let _ = write!(
+                h,
+                "<p>Ground surface held at {} from the start.</p>\n",
+                t(*temperature_c)
+            );
         }
     }
     let _ = write!(
         h,
         "<h3>Ground</h3>\n<p>Geothermal heat flux {}; initial temperature {}.</p>\n<table>\n<tr><th>layer</th><th class=\"n\">top</th><th class=\"n\">thickness</th><th class=\"n\">conductivity<br>unfrozen / frozen</th><th class=\"n\">heat capacity<br>unfrozen / frozen</th><th class=\"n\">water content</th><th class=\"n\">latent heat</th></tr>\n",
-        esc(&format_quantity(site.ground.geothermal_flux_w_m2, Dimension::HeatFlux)),
+        esc(&format_quantity(
+            site.ground.geothermal_flux_w_m2,
+            Dimension::HeatFlux
+        )),
         match site.ground.initial_temperature_c {
             Some(v) => t(v),
             None => "the periodic undisturbed state".into(),
         }
     );
     for (l, top) in site.ground.layers.iter().zip(site.ground.layer_tops_m()) {
-        let preset = l.preset.as_deref().map(|p| format!(" <span class=\"meta\">({})</span>", esc(p))).unwrap_or_default();
+        let preset = l
+            .preset
+            .as_deref()
+            .map(|p| format!(" <span class=\"meta\">({})</span>", esc(p)))
+            .unwrap_or_default();
         let _ = write!(
             h,
             "<tr><td>{}{preset}</td><td class=\"n\">{top:.2} m</td><td class=\"n\">{}</td><td class=\"n\">{:.2} / {:.2} W/(m K)</td><td class=\"n\">{:.2} / {:.2} MJ/(m3 K)</td><td class=\"n\">{:.0} %</td><td class=\"n\">{:.0} MJ/m3</td></tr>\n",
             esc(&l.name),
-            l.thickness_m.map(|t| format!("{t:.2} m")).unwrap_or_else(|| "to the bottom".into()),
+            l.thickness_m
+                .map(|t| format!("{t:.2} m"))
+                .unwrap_or_else(|| "to the bottom".into()),
             l.conductivity_w_m_k,
             l.frozen_conductivity_w_m_k,
             l.heat_capacity_j_m3_k / 1e6,
@@ -202,7 +240,10 @@ fn ground(h: &mut String, r: &Results, figures: &[Figure]) {
             g.energy_balance_relative_error.unwrap_or(0.0)
         )
     };
-    let _ = write!(h, "<h2 id=\"ground\">Undisturbed ground</h2>\n<p>Found by {method}.</p>\n");
+    let _ = write!(
+        h,
+        "<h2 id=\"ground\">Undisturbed ground</h2>\n<p>Found by {method}.</p>\n"
+    );
     for f in figures {
         let _ = write!(
             h,
@@ -212,7 +253,10 @@ fn ground(h: &mut String, r: &Results, figures: &[Figure]) {
             esc(&f.caption)
         );
     }
-    let _ = write!(h, "<table>\n<tr><th class=\"n\">depth</th><th class=\"n\">mean</th><th class=\"n\">lowest</th><th class=\"n\">highest</th></tr>\n");
+    let _ = write!(
+        h,
+        "<table>\n<tr><th class=\"n\">depth</th><th class=\"n\">mean</th><th class=\"n\">lowest</th><th class=\"n\">highest</th></tr>\n"
+    );
     for row in g.profile.iter().filter(|p| is_listed_depth(p.depth_m)) {
         let _ = write!(
             h,
@@ -220,13 +264,18 @@ fn ground(h: &mut String, r: &Results, figures: &[Figure]) {
             row.depth_m, row.mean_c, row.min_c, row.max_c
         );
     }
-    let _ = write!(h, "</table>\n<p class=\"meta\">Every 0.25 m in <code>ground-profile.csv</code>.</p>\n");
+    let _ = write!(
+        h,
+        "</table>\n<p class=\"meta\">Every 0.25 m in <code>ground-profile.csv</code>.</p>\n"
+    );
 }
 
 fn is_listed_depth(z: f64) -> bool {
-    [0.0, 0.5, 1.0, 1.5, 2.0, 3.0, 5.0, 7.5, 10.0, 15.0, 20.0, 30.0, 50.0, 100.0, 200.0]
-        .iter()
-        .any(|d| (d - z).abs() < 1e-9)
+    [
+        0.0, 0.5, 1.0, 1.5, 2.0, 3.0, 5.0, 7.5, 10.0, 15.0, 20.0, 30.0, 50.0, 100.0, 200.0,
+    ]
+    .iter()
+    .any(|d| (d - z).abs() < 1e-9)
 }
 
 fn strip_xml_declaration(svg: &str) -> &str {
@@ -271,7 +320,13 @@ pub fn surface_plot(r: &Results) -> LinePlot {
         y_label: "temperature (°C)".into(),
         series: vec![Series {
             name: "surface".into(),
-            points: r.ground.surface_daily_c.iter().enumerate().map(|(d, t)| ((d + 1) as f64, *t)).collect(),
+            points: r
+                .ground
+                .surface_daily_c
+                .iter()
+                .enumerate()
+                .map(|(d, t)| ((d + 1) as f64, *t))
+                .collect(),
             style: SeriesStyle::Line,
             colour: 1,
         }],
@@ -290,6 +345,9 @@ mod tests {
 
     #[test]
     fn markup_in_user_text_is_escaped() {
-        assert_eq!(esc("<b>\"A&B's\"</b>"), "&lt;b&gt;&quot;A&amp;B&#39;s&quot;&lt;/b&gt;");
+        assert_eq!(
+            esc("<b>\"A&B's\"</b>"),
+            "&lt;b&gt;&quot;A&amp;B&#39;s&quot;&lt;/b&gt;"
+        );
     }
 }

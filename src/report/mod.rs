@@ -41,7 +41,8 @@ pub fn write_bundle(results: &Results, site: &Site, out_dir: &Path) -> Result<()
         Some(p) if !p.as_os_str().is_empty() => p.to_path_buf(),
         _ => Path::new(".").to_path_buf(),
     };
-    std::fs::create_dir_all(&parent).map_err(|e| format!("cannot create the folder {}: {e}", parent.display()))?;
+    std::fs::create_dir_all(&parent)
+        .map_err(|e| format!("cannot create the folder {}: {e}", parent.display()))?;
     let tmp = tempfile::Builder::new()
         .prefix(".burrow-bundle-")
         .tempdir_in(&parent)
@@ -54,7 +55,8 @@ pub fn write_bundle(results: &Results, site: &Site, out_dir: &Path) -> Result<()
         }
         std::fs::write(&path, bytes).map_err(|e| format!("cannot write {}: {e}", path.display()))
     };
-    let json = serde_json::to_string_pretty(results).map_err(|e| format!("cannot serialise the results: {e}"))?;
+    let json =
+        serde_json::to_string_pretty(results).map_err(|e| format!("cannot serialise the results: {e}"))?;
     write("results.json", json.as_bytes())?;
     write("ground-profile.csv", csv::ground_profile(results).as_bytes())?;
     write("surface-temperature.csv", csv::surface_daily(results).as_bytes())?;
@@ -71,7 +73,10 @@ fn replace_dir(tmp: tempfile::TempDir, target: &Path) -> Result<(), String> {
     let staged = tmp.keep();
     let old = target.with_file_name(format!(
         ".burrow-old-{}-{}",
-        target.file_name().map(|n| n.to_string_lossy().into_owned()).unwrap_or_default(),
+        target
+            .file_name()
+            .map(|n| n.to_string_lossy().into_owned())
+            .unwrap_or_default(),
         std::process::id()
     ));
     let had_old = target.exists();

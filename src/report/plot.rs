@@ -10,7 +10,7 @@ use plotters::coord::Shift;
 use plotters::element::{DashedPathElement, Polygon};
 use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
-use plotters::style::{register_font, FontStyle};
+use plotters::style::{FontStyle, register_font};
 use std::sync::OnceLock;
 
 /// Family name under which the bundled font is registered. It doubles as the CSS font-family
@@ -188,9 +188,7 @@ fn encode_png(rgb: &[u8], width_px: u32, height_px: u32) -> Result<Vec<u8>, Stri
     writer
         .write_image_data(rgb)
         .map_err(|e| format!("PNG encoding failed: {e}"))?;
-    writer
-        .finish()
-        .map_err(|e| format!("PNG encoding failed: {e}"))?;
+    writer.finish().map_err(|e| format!("PNG encoding failed: {e}"))?;
     Ok(out)
 }
 
@@ -201,9 +199,7 @@ fn drawing_error<E: std::fmt::Debug>(e: E) -> String {
 /// Replaces control characters (invalid in XML 1.0 even when escaped, and meaningless in a
 /// label) by spaces. Markup characters are escaped by the SVG backend itself.
 fn clean_text(s: &str) -> String {
-    s.chars()
-        .map(|c| if c.is_control() { ' ' } else { c })
-        .collect()
+    s.chars().map(|c| if c.is_control() { ' ' } else { c }).collect()
 }
 
 /// Text sizes in plotters' size unit (pixels of ascent + descent), scaled with the image.
@@ -275,11 +271,7 @@ impl Bounds {
 
 /// Clips the segment a-b to `b` (Liang-Barsky). Returns the visible part and whether its start
 /// and end were moved.
-fn clip_segment(
-    a: (f64, f64),
-    b: (f64, f64),
-    bx: &Bounds,
-) -> Option<((f64, f64), (f64, f64), bool, bool)> {
+fn clip_segment(a: (f64, f64), b: (f64, f64), bx: &Bounds) -> Option<((f64, f64), (f64, f64), bool, bool)> {
     let (dx, dy) = (b.0 - a.0, b.1 - a.1);
     let (mut t0, mut t1) = (0.0_f64, 1.0_f64);
     for (p, q) in [
@@ -502,9 +494,7 @@ fn prepare_line_plot(plot: &LinePlot) -> Result<PreparedLinePlot, String> {
     }
     for (v, label) in plot.hlines.iter().chain(&plot.vlines) {
         if !v.is_finite() {
-            return Err(format!(
-                "reference line '{label}' is at {v}; give a finite value"
-            ));
+            return Err(format!("reference line '{label}' is at {v}; give a finite value"));
         }
     }
 
@@ -523,11 +513,7 @@ fn prepare_line_plot(plot: &LinePlot) -> Result<PreparedLinePlot, String> {
     let (y0, y1) = match plot.y_range {
         Some(r) => {
             let (lo, hi) = checked_range(r, "y_range")?;
-            if plot.y_down {
-                (-hi, -lo)
-            } else {
-                (lo, hi)
-            }
+            if plot.y_down { (-hi, -lo) } else { (lo, hi) }
         }
         None => auto_range(
             all_points()
@@ -802,14 +788,8 @@ fn draw_line_plot<DB: DrawingBackend>(
 /// Opacity of band fills.
 const BAND_ALPHA: f64 = 0.22;
 
-fn text_width<DB: DrawingBackend>(
-    root: &DrawingArea<DB, Shift>,
-    text: &str,
-    style: &TextStyle,
-) -> u32 {
-    root.estimate_text_size(text, style)
-        .map(|s| s.0)
-        .unwrap_or(0)
+fn text_width<DB: DrawingBackend>(root: &DrawingArea<DB, Shift>, text: &str, style: &TextStyle) -> u32 {
+    root.estimate_text_size(text, style).map(|s| s.0).unwrap_or(0)
 }
 
 /// Draws a polyline of at least two points in the given line style.
@@ -826,12 +806,7 @@ where
 {
     let line = c.stroke_width(strokes.line);
     match style {
-        SeriesStyle::Dashed => area.draw(&DashedPathElement::new(
-            points,
-            strokes.dash,
-            strokes.gap,
-            line,
-        )),
+        SeriesStyle::Dashed => area.draw(&DashedPathElement::new(points, strokes.dash, strokes.gap, line)),
         SeriesStyle::Dotted => area.draw(&DashedPathElement::new(
             points,
             strokes.line as i32,
@@ -859,8 +834,7 @@ where
     match shape % 4 {
         0 => area.draw(&Circle::new(at, size, c.filled())),
         1 => area.draw(
-            &(EmptyElement::at(at)
-                + Rectangle::new([(-size, -size), (size, size)], c.stroke_width(2))),
+            &(EmptyElement::at(at) + Rectangle::new([(-size, -size), (size, size)], c.stroke_width(2))),
         ),
         2 => area.draw(&TriangleMarker::new(at, size + 1, c.filled())),
         _ => area.draw(&Cross::new(at, size, c.stroke_width(2))),
@@ -932,13 +906,7 @@ fn draw_legend<DB: DrawingBackend>(
         match e.key {
             LegendKey::Series(style, colour) => {
                 if style != SeriesStyle::Markers {
-                    draw_styled_line(
-                        pixels,
-                        vec![(kx0, yc), (kx1, yc)],
-                        style,
-                        rgb(colour),
-                        strokes,
-                    )?;
+                    draw_styled_line(pixels, vec![(kx0, yc), (kx1, yc)], style, rgb(colour), strokes)?;
                 }
                 if matches!(style, SeriesStyle::Markers | SeriesStyle::LineMarkers) {
                     draw_marker(pixels, ((kx0 + kx1) / 2, yc), colour, strokes.marker)?;

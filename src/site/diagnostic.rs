@@ -158,16 +158,28 @@ mod tests {
 
     #[test]
     fn paths_print_like_the_site_file_reads() {
-        let p = KeyPath::root().key("ground").key("layers").index(2).key("conductivity");
+        let p = KeyPath::root()
+            .key("ground")
+            .key("layers")
+            .index(2)
+            .key("conductivity");
         assert_eq!(p.to_string(), "ground.layers[2].conductivity");
     }
 
     #[test]
     fn a_path_locates_its_value_or_its_nearest_parent() {
         let tree = parse("ground:\n  layers:\n    - name: a\n      conductivity: 1\n").unwrap();
-        let p = KeyPath::root().key("ground").key("layers").index(0).key("conductivity");
+        let p = KeyPath::root()
+            .key("ground")
+            .key("layers")
+            .index(0)
+            .key("conductivity");
         assert_eq!(p.locate(&tree), Loc { line: 4, column: 21 });
-        let missing = KeyPath::root().key("ground").key("layers").index(0).key("thickness");
+        let missing = KeyPath::root()
+            .key("ground")
+            .key("layers")
+            .index(0)
+            .key("thickness");
         assert_eq!(missing.locate(&tree), Loc { line: 3, column: 7 });
     }
 }

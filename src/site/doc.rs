@@ -51,6 +51,7 @@ pub enum ClimateDoc {
     /// the n-factors.
     MonthlyAir {
         /// Twelve monthly mean air temperatures, January to December.
+        #[schemars(length(min = 12, max = 12))]
         air: Vec<Q<Temperature>>,
         /// Ratio of the surface to the air freezing index (default 1: surface = air).
         #[serde(default)]
@@ -97,6 +98,7 @@ pub struct GroundDoc {
     #[serde(default)]
     pub geothermal_flux: Option<Q<HeatFlux>>,
     /// Soil layers from the surface down; the last one extends to the bottom of every model.
+    #[schemars(length(min = 1))]
     pub layers: Vec<LayerDoc>,
 }
 

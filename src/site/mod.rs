@@ -97,7 +97,10 @@ pub fn load_text(text: &str, label: &str, base_dir: &Path) -> Result<Loaded, Vec
         Ok(d) => d,
         Err(e) => {
             // The schema check passed, so this is a gap in the schema subset we check.
-            out.error(&KeyPath::root(), format!("the site file does not fit its schema: {e}"));
+            out.error(
+                &KeyPath::root(),
+                format!("the site file does not fit its schema: {e}"),
+            );
             return Err(sorted(out.items));
         }
     };

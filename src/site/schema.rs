@@ -97,35 +97,35 @@ impl<'s> Checker<'s> {
         {
             self.check_alternatives(node, alts, path, out);
         }
-        if let Some(types) = schema.get("type") {
-            if !type_matches(node, types) {
-                out.error(
-                    path,
-                    format!(
-                        "expected {}, but found {}",
-                        describe_types(types),
-                        describe_node(node)
-                    ),
-                );
-                return;
-            }
+        if let Some(types) = schema.get("type")
+            && !type_matches(node, types)
+        {
+            out.error(
+                path,
+                format!(
+                    "expected {}, but found {}",
+                    describe_types(types),
+                    describe_node(node)
+                ),
+            );
+            return;
         }
-        if let Some(options) = schema.get("enum").and_then(Json::as_array) {
-            if !options.iter().any(|o| node_equals(node, o)) {
-                out.error(
-                    path,
-                    format!(
-                        "{} is not allowed here; use one of: {}",
-                        describe_node(node),
-                        list_values(options)
-                    ),
-                );
-            }
+        if let Some(options) = schema.get("enum").and_then(Json::as_array)
+            && !options.iter().any(|o| node_equals(node, o))
+        {
+            let given = describe_node(node);
+            out.error(
+                path,
+                format!(
+                    "{given} is not allowed here; use one of: {}",
+                    list_values(options)
+                ),
+            );
         }
-        if let Some(c) = schema.get("const") {
-            if !node_equals(node, c) {
-                out.error(path, format!("expected {c}, but found {}", describe_node(node)));
-            }
+        if let Some(c) = schema.get("const")
+            && !node_equals(node, c)
+        {
+            out.error(path, format!("expected {c}, but found {}", describe_node(node)));
         }
         match &node.value {
             Value::Map(entries) => self.check_object(node, entries, schema, path, out),
@@ -203,15 +203,18 @@ impl<'s> Checker<'s> {
         let max = schema.get("maxItems").and_then(Json::as_u64);
         let n = items.len() as u64;
         match (min, max) {
-            (Some(a), Some(b)) if a == b && n != a => {
-                out.error(path, format!("expected a list of exactly {a} values, but it has {n}"))
-            }
-            (Some(a), _) if n < a => {
-                out.error(path, format!("expected a list of at least {a} values, but it has {n}"))
-            }
-            (_, Some(b)) if n > b => {
-                out.error(path, format!("expected a list of at most {b} values, but it has {n}"))
-            }
+            (Some(a), Some(b)) if a == b && n != a => out.error(
+                path,
+                format!("expected a list of exactly {a} values, but it has {n}"),
+            ),
+            (Some(a), _) if n < a => out.error(
+                path,
+                format!("expected a list of at least {a} values, but it has {n}"),
+            ),
+            (_, Some(b)) if n > b => out.error(
+                path,
+                format!("expected a list of at most {b} values, but it has {n}"),
+            ),
             _ => {}
         }
         if let Some(item_schema) = schema.get("items") {
@@ -221,13 +224,7 @@ impl<'s> Checker<'s> {
         }
     }
 
-    fn check_alternatives(
-        &self,
-        node: &Node,
-        alts: &'s [Json],
-        path: &KeyPath,
-        out: &mut Collector<'_>,
-    ) {
+    fn check_alternatives(&self, node: &Node, alts: &'s [Json], path: &KeyPath, out: &mut Collector<'_>) {
         let alts: Vec<&Json> = alts.iter().map(|a| self.resolve(a)).collect();
         if let (Value::Map(entries), Some(tag)) = (&node.value, tag_key(&alts)) {
             let options: Vec<&str> = alts.iter().filter_map(|a| tag_value(a, &tag)).collect();
@@ -363,7 +360,13 @@ fn describe_types(types: &Json) -> String {
     match types {
         Json::String(t) => one(t).to_string(),
         Json::Array(ts) => {
-            let words: Vec<&str> = ts.iter().filter_map(Json::as_str).map(one).collect();
+            // "null" only says the key may be left empty: not worth a word in the message.
+            let words: Vec<&str> = ts
+                .iter()
+                .filter_map(Json::as_str)
+                .filter(|t| *t != "null" || ts.len() == 1)
+                .map(one)
+                .collect();
             if words == ["a number", "text"] {
                 "a number or a quantity with a unit".to_string()
             } else {

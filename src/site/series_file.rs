@@ -46,8 +46,10 @@ pub struct Series {
 /// Reads and checks a temperature file. The error is one sentence that names the file and line.
 pub fn read(path: &Path, column: Option<&str>, unit: TemperatureUnit) -> Result<Series, String> {
     let name = path.display().to_string();
-    let bytes = std::fs::read(path).map_err(|e| format!("cannot read the temperature file `{name}`: {}", io_reason(&e)))?;
-    let text = String::from_utf8(bytes).map_err(|_| format!("the temperature file `{name}` is not UTF-8 text"))?;
+    let bytes = std::fs::read(path)
+        .map_err(|e| format!("cannot read the temperature file `{name}`: {}", io_reason(&e)))?;
+    let text =
+        String::from_utf8(bytes).map_err(|_| format!("the temperature file `{name}` is not UTF-8 text"))?;
     parse(&text, &name, column, unit)
 }
 
@@ -59,15 +61,31 @@ fn io_reason(e: &std::io::Error) -> String {
 }
 
 pub fn parse(text: &str, name: &str, column: Option<&str>, unit: TemperatureUnit) -> Result<Series, String> {
-    let mut lines = text.lines().enumerate().filter(|(_, l)| !l.trim().is_empty() && !l.trim_start().starts_with('#'));
-    let (_, header) = lines.next().ok_or_else(|| format!("the temperature file `{name}` is empty; it needs a header row and records"))?;
-    let sep = if header.contains(';') && !header.contains(',') { ';' } else { ',' };
+    let mut lines = text
+        .lines()
+        .enumerate()
+        .filter(|(_, l)| !l.trim().is_empty() && !l.trim_start().starts_with('#'));
+    let (_, header) = lines.next().ok_or_else(|| {
+        format!("the temperature file `{name}` is empty; it needs a header row and records")
+    })?;
+    let sep = if header.contains(';') && !header.contains(',') {
+        ';'
+    } else {
+        ','
+    };
     let headers: Vec<String> = split(header, sep);
     let col = match column {
         None if headers.len() >= 2 => 1,
-        None => return Err(format!("the temperature file `{name}` has one column; it needs a date column and a temperature column")),
+        None => {
+            return Err(format!(
+                "the temperature file `{name}` has one column; it needs a date column and a temperature column"
+            ));
+        }
         Some(c) => headers.iter().position(|h| h == c).ok_or_else(|| {
-            format!("the temperature file `{name}` has no column `{c}`; its columns are: {}", headers.join(", "))
+            format!(
+                "the temperature file `{name}` has no column `{c}`; its columns are: {}",
+                headers.join(", ")
+            )
         })?,
     };
     let mut times: Vec<f64> = Vec::new();
@@ -88,36 +106,61 @@ pub fn parse(text: &str, name: &str, column: Option<&str>, unit: TemperatureUnit
             format!("line {n} of `{name}`: `{value}` in column `{}` is not a temperature (a finite number is needed; fill gaps before use)", headers[col])
         })?;
         let time = days as f64 * 86_400.0 + secs;
-        if let (Some(&prev), Some(&prev2)) = (times.last(), times.len().checked_sub(2).and_then(|k| times.get(k))) {
+        if let (Some(&prev), Some(&prev2)) = (
+            times.last(),
+            times.len().checked_sub(2).and_then(|k| times.get(k)),
+        ) {
             let step = prev - prev2;
             if (time - prev - step).abs() > 1.0 {
-                return Err(format!("line {n} of `{name}`: the records are not evenly spaced (a step of {} h after steps of {} h); fill the gap or remove the duplicate", (time - prev) / 3600.0, step / 3600.0));
+                return Err(format!(
+                    "line {n} of `{name}`: the records are not evenly spaced (a step of {} h after steps of {} h); fill the gap or remove the duplicate",
+                    (time - prev) / 3600.0,
+                    step / 3600.0
+                ));
             }
         } else if let Some(&prev) = times.last()
             && time - prev != 86_400.0
             && time - prev != 3_600.0
         {
-            return Err(format!("line {n} of `{name}`: records must be one day or one hour apart, but this one follows the previous by {} h", (time - prev) / 3600.0));
+            return Err(format!(
+                "line {n} of `{name}`: records must be one day or one hour apart, but this one follows the previous by {} h",
+                (time - prev) / 3600.0
+            ));
         }
         times.push(time);
         temps.push(unit.to_celsius(t));
     }
     if temps.len() < 2 {
-        return Err(format!("the temperature file `{name}` holds fewer than two records"));
+        return Err(format!(
+            "the temperature file `{name}` holds fewer than two records"
+        ));
     }
     let step_s = times[1] - times[0];
     let per_year = (365.0 * 86_400.0 / step_s).round() as usize;
     if temps.len() < per_year {
-        return Err(format!("the temperature file `{name}` covers less than one year ({} records at {} h); give at least a whole year", temps.len(), step_s / 3600.0));
+        return Err(format!(
+            "the temperature file `{name}` covers less than one year ({} records at {} h); give at least a whole year",
+            temps.len(),
+            step_s / 3600.0
+        ));
     }
     let first = first_date.unwrap_or_default();
     let (y, m, d) = parse_date(&first).unwrap_or((1970, 1, 1));
-    let start_day = (days_from_civil(y, m, d) - days_from_civil(y, 1, 1)) as f64 + 1.0 + (times[0].rem_euclid(86_400.0)) / 86_400.0;
-    Ok(Series { start_year: y, start_day_of_year: start_day, step_s, air_c: temps })
+    let start_day = (days_from_civil(y, m, d) - days_from_civil(y, 1, 1)) as f64
+        + 1.0
+        + (times[0].rem_euclid(86_400.0)) / 86_400.0;
+    Ok(Series {
+        start_year: y,
+        start_day_of_year: start_day,
+        step_s,
+        air_c: temps,
+    })
 }
 
 fn split(line: &str, sep: char) -> Vec<String> {
-    line.split(sep).map(|f| f.trim().trim_matches('"').trim().to_string()).collect()
+    line.split(sep)
+        .map(|f| f.trim().trim_matches('"').trim().to_string())
+        .collect()
 }
 
 fn parse_date(s: &str) -> Option<(i32, u32, u32)> {
@@ -126,7 +169,20 @@ fn parse_date(s: &str) -> Option<(i32, u32, u32)> {
     let m: u32 = parts.next()?.parse().ok()?;
     let d: u32 = parts.next()?.parse().ok()?;
     let leap = (y % 4 == 0 && y % 100 != 0) || y % 400 == 0;
-    let month_days = [31, if leap { 29 } else { 28 }, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
+    let month_days = [
+        31,
+        if leap { 29 } else { 28 },
+        31,
+        30,
+        31,
+        30,
+        31,
+        31,
+        30,
+        31,
+        30,
+        31,
+    ];
     ((1..=12).contains(&m) && d >= 1 && d <= month_days[(m - 1) as usize]).then_some((y, m, d))
 }
 
@@ -182,7 +238,12 @@ mod tests {
 
     #[test]
     fn a_gap_is_refused_with_its_line() {
-        let text: String = daily(400).lines().enumerate().filter(|(i, _)| *i != 50).map(|(_, l)| format!("{l}\n")).collect();
+        let text: String = daily(400)
+            .lines()
+            .enumerate()
+            .filter(|(i, _)| *i != 50)
+            .map(|(_, l)| format!("{l}\n"))
+            .collect();
         let e = parse(&text, "w.csv", None, TemperatureUnit::Celsius).unwrap_err();
         assert!(e.contains("line 51"), "{e}");
     }

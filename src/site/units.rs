@@ -265,7 +265,7 @@ pub fn parse_quantity(text: &str, dim: Dimension) -> Result<f64, UnitError> {
         D::Dimensionless => {
             return Err(UnitError(format!(
                 "`{t}` has a unit, but a plain number is expected here; give the number alone"
-            )))
+            )));
         }
         D::Fraction if unit == "%" => number * 0.01,
         D::Temperature => match absolute_to_celsius(number, unit) {
@@ -380,13 +380,7 @@ fn base_units(v: DimVec) -> String {
         .iter()
         .zip(v)
         .filter(|(_, e)| *e != 0)
-        .map(|(s, e)| {
-            if e == 1 {
-                s.to_string()
-            } else {
-                format!("{s}{e}")
-            }
-        })
+        .map(|(s, e)| if e == 1 { s.to_string() } else { format!("{s}{e}") })
         .collect();
     if parts.is_empty() {
         "1 (a pure number)".into()
@@ -504,10 +498,7 @@ fn parse_unit(unit: &str, t: &str, dim: Dimension) -> Result<Term, UnitError> {
         ))
     };
     let toks = tokenize(unit).map_err(fail)?;
-    let mut p = Parser {
-        toks: &toks,
-        pos: 0,
-    };
+    let mut p = Parser { toks: &toks, pos: 0 };
     let term = p.expr().map_err(fail)?;
     if p.pos < toks.len() {
         return Err(fail(format!("unexpected `{}`", show(&toks[p.pos]))));
@@ -593,9 +584,7 @@ impl Parser<'_> {
             self.pos += 1;
             acc = acc.times(self.factor()?, -1);
             if matches!(self.peek(), Some(Tok::Mul | Tok::Name(_) | Tok::Open)) {
-                return Err(
-                    "`/` is followed by a product without parentheses, which is ambiguous".into(),
-                );
+                return Err("`/` is followed by a product without parentheses, which is ambiguous".into());
             }
         }
         Ok(acc)

@@ -52,7 +52,10 @@ impl Validator<'_, '_> {
         if v > 0.0 {
             Some(v)
         } else {
-            self.out.error(path, format!("{what} must be greater than zero, but {v} was given"));
+            self.out.error(
+                path,
+                format!("{what} must be greater than zero, but {v} was given"),
+            );
             None
         }
     }
@@ -75,13 +78,23 @@ impl Validator<'_, '_> {
         if (lo..=hi).contains(&v) {
             Some(v)
         } else {
-            self.out.error(path, format!("{what} must lie between {lo} and {hi}, but {v} was given"));
+            self.out.error(
+                path,
+                format!("{what} must lie between {lo} and {hi}, but {v} was given"),
+            );
             None
         }
     }
 
     /// Warns when a value lies outside its usual engineering range.
-    pub fn plausible(&mut self, value: Option<f64>, (lo, hi): (f64, f64), path: &KeyPath, what: &str, unit: &str) {
+    pub fn plausible(
+        &mut self,
+        value: Option<f64>,
+        (lo, hi): (f64, f64),
+        path: &KeyPath,
+        what: &str,
+        unit: &str,
+    ) {
         if let Some(v) = value
             && !(lo..=hi).contains(&v)
         {
@@ -115,7 +128,12 @@ pub fn site(doc: &SiteDoc, v: &mut Validator) -> Option<Site> {
     })
 }
 
-fn n_factors(freezing: Option<f64>, thawing: Option<f64>, path: &KeyPath, v: &mut Validator) -> Option<NFactors> {
+fn n_factors(
+    freezing: Option<f64>,
+    thawing: Option<f64>,
+    path: &KeyPath,
+    v: &mut Validator,
+) -> Option<NFactors> {
     let mut one = |n: Option<f64>, key: &str| -> Option<f64> {
         let p = path.key(key);
         let n = v.positive(Some(n.unwrap_or(1.0)), &p, "an n-factor");
@@ -125,15 +143,28 @@ fn n_factors(freezing: Option<f64>, thawing: Option<f64>, path: &KeyPath, v: &mu
     };
     let freezing = one(freezing, "n_factor_freezing");
     let thawing = one(thawing, "n_factor_thawing");
-    Some(NFactors { freezing: freezing?, thawing: thawing? })
+    Some(NFactors {
+        freezing: freezing?,
+        thawing: thawing?,
+    })
 }
 
 fn climate(doc: &ClimateDoc, path: &KeyPath, v: &mut Validator) -> Option<Climate> {
     let surface_range = (-40.0, 40.0);
     match doc {
-        ClimateDoc::AnnualWave { mean, amplitude, coldest_day } => {
+        ClimateDoc::AnnualWave {
+            mean,
+            amplitude,
+            coldest_day,
+        } => {
             let mean_c = v.q(mean, &path.key("mean"));
-            v.plausible(mean_c, (-20.0, 35.0), &path.key("mean"), "a mean surface temperature", "°C");
+            v.plausible(
+                mean_c,
+                (-20.0, 35.0),
+                &path.key("mean"),
+                "a mean surface temperature",
+                "°C",
+            );
             let amp = v.q(amplitude, &path.key("amplitude"));
             let amp = match amp {
                 Some(a) if a < 0.0 => {
@@ -143,12 +174,34 @@ fn climate(doc: &ClimateDoc, path: &KeyPath, v: &mut Validator) -> Option<Climat
                 a => a,
             };
             v.plausible(amp, (0.0, 30.0), &path.key("amplitude"), "an amplitude", "K");
-            let day = v.within(Some(*coldest_day), (1.0, 366.0), &path.key("coldest_day"), "the day of the year");
-            Some(Climate::AnnualWave { mean_c: mean_c?, amplitude_k: amp?, coldest_day: day? })
+            let day = v.within(
+                Some(*coldest_day),
+                (1.0, 366.0),
+                &path.key("coldest_day"),
+                "the day of the year",
+            );
+            Some(Climate::AnnualWave {
+                mean_c: mean_c?,
+                amplitude_k: amp?,
+                coldest_day: day?,
+            })
         }
-        ClimateDoc::MonthlyAir { air, n_factor_freezing, n_factor_thawing } => {
+        ClimateDoc::MonthlyAir {
+            air,
+            n_factor_freezing,
+            n_factor_thawing,
+        } => {
             let mut values = [0.0; 12];
             let mut ok = air.len() == 12;
+            if !ok {
+                v.out.error(
+                    &path.key("air"),
+                    format!(
+                        "expected a list of exactly 12 monthly values, January first, but it has {}",
+                        air.len()
+                    ),
+                );
+            }
             for (i, q) in air.iter().enumerate() {
                 let p = path.key("air").index(i);
                 let t = v.q(q, &p);
@@ -160,16 +213,28 @@ fn climate(doc: &ClimateDoc, path: &KeyPath, v: &mut Validator) -> Option<Climat
             }
             let n = n_factors(*n_factor_freezing, *n_factor_thawing, path, v);
             ok.then_some(())?;
-            Some(Climate::MonthlyAir { air_c: values, n_factors: n? })
+            Some(Climate::MonthlyAir {
+                air_c: values,
+                n_factors: n?,
+            })
         }
-        ClimateDoc::Series { file, column, unit, n_factor_freezing, n_factor_thawing } => {
+        ClimateDoc::Series {
+            file,
+            column,
+            unit,
+            n_factor_freezing,
+            n_factor_thawing,
+        } => {
             let n = n_factors(*n_factor_freezing, *n_factor_thawing, path, v);
             let unit = match unit.as_deref() {
                 None => Some(series_file::TemperatureUnit::Celsius),
                 Some(u) => match series_file::TemperatureUnit::parse(u) {
                     Some(u) => Some(u),
                     None => {
-                        v.out.error(&path.key("unit"), format!("`{u}` is not a temperature unit for the file; use °C, °F or K"));
+                        v.out.error(
+                            &path.key("unit"),
+                            format!("`{u}` is not a temperature unit for the file; use °C, °F or K"),
+                        );
                         None
                     }
                 },
@@ -199,7 +264,13 @@ fn climate(doc: &ClimateDoc, path: &KeyPath, v: &mut Validator) -> Option<Climat
         }
         ClimateDoc::Constant { temperature } => {
             let t = v.q(temperature, &path.key("temperature"));
-            v.plausible(t, surface_range, &path.key("temperature"), "a surface temperature", "°C");
+            v.plausible(
+                t,
+                surface_range,
+                &path.key("temperature"),
+                "a surface temperature",
+                "°C",
+            );
             Some(Climate::Constant { temperature_c: t? })
         }
     }
@@ -207,12 +278,27 @@ fn climate(doc: &ClimateDoc, path: &KeyPath, v: &mut Validator) -> Option<Climat
 
 fn ground(doc: &GroundDoc, path: &KeyPath, v: &mut Validator) -> Option<Ground> {
     let init = v.opt_q(&doc.initial_temperature, &path.key("initial_temperature"));
-    v.plausible(init.flatten(), (-30.0, 40.0), &path.key("initial_temperature"), "an initial ground temperature", "°C");
+    v.plausible(
+        init.flatten(),
+        (-30.0, 40.0),
+        &path.key("initial_temperature"),
+        "an initial ground temperature",
+        "°C",
+    );
     let flux = v.opt_q(&doc.geothermal_flux, &path.key("geothermal_flux"));
     // Continental heat flow is mostly 0.04–0.12 W/m2 (Pollack, Hurter & Johnson 1993, from memory).
-    v.plausible(flux.flatten(), (0.0, 0.2), &path.key("geothermal_flux"), "a geothermal heat flux", "W/m2");
+    v.plausible(
+        flux.flatten(),
+        (0.0, 0.2),
+        &path.key("geothermal_flux"),
+        "a geothermal heat flux",
+        "W/m2",
+    );
     if doc.layers.is_empty() {
-        v.out.error(&path.key("layers"), "at least one soil layer is needed; the last layer extends to the bottom of the model");
+        v.out.error(
+            &path.key("layers"),
+            "at least one soil layer is needed; the last layer extends to the bottom of the model",
+        );
         return None;
     }
     let n = doc.layers.len();
@@ -237,7 +323,13 @@ fn layer(doc: &LayerDoc, last: bool, path: &KeyPath, v: &mut Validator) -> Optio
             Some(p) => Some(Some(p)),
             None => {
                 let names: Vec<&str> = soils::presets().iter().map(|p| p.name).collect();
-                v.out.error(&path.key("soil"), format!("`{name}` is not a soil preset; use one of: {} (or give the properties)", names.join(", ")));
+                v.out.error(
+                    &path.key("soil"),
+                    format!(
+                        "`{name}` is not a soil preset; use one of: {} (or give the properties)",
+                        names.join(", ")
+                    ),
+                );
                 None
             }
         },
@@ -246,7 +338,8 @@ fn layer(doc: &LayerDoc, last: bool, path: &KeyPath, v: &mut Validator) -> Optio
     let thickness = match &doc.thickness {
         Some(q) => {
             let t = v.q(q, &path.key("thickness"));
-            v.positive(t, &path.key("thickness"), "a layer thickness").map(Some)
+            v.positive(t, &path.key("thickness"), "a layer thickness")
+                .map(Some)
         }
         None if last => Some(None),
         None => {
@@ -254,8 +347,22 @@ fn layer(doc: &LayerDoc, last: bool, path: &KeyPath, v: &mut Validator) -> Optio
             None
         }
     };
-    let k = property(v, &doc.conductivity, preset.map(|p| p.conductivity_w_m_k), path, "conductivity", "the thermal conductivity");
-    let c = property(v, &doc.heat_capacity, preset.map(|p| p.heat_capacity_j_m3_k), path, "heat_capacity", "the volumetric heat capacity");
+    let k = property(
+        v,
+        &doc.conductivity,
+        preset.map(|p| p.conductivity_w_m_k),
+        path,
+        "conductivity",
+        "the thermal conductivity",
+    );
+    let c = property(
+        v,
+        &doc.heat_capacity,
+        preset.map(|p| p.heat_capacity_j_m3_k),
+        path,
+        "heat_capacity",
+        "the volumetric heat capacity",
+    );
     let k_f = match &doc.frozen_conductivity {
         Some(q) => v.positive_q(q, &path.key("frozen_conductivity"), "the frozen conductivity"),
         None => preset.map(|p| p.frozen_conductivity_w_m_k).or(k),
@@ -267,7 +374,12 @@ fn layer(doc: &LayerDoc, last: bool, path: &KeyPath, v: &mut Validator) -> Optio
     let w = match &doc.water_content {
         Some(q) => {
             let w = v.q(q, &path.key("water_content"));
-            v.within(w, (0.0, 1.0), &path.key("water_content"), "the volumetric water content")
+            v.within(
+                w,
+                (0.0, 1.0),
+                &path.key("water_content"),
+                "the volumetric water content",
+            )
         }
         None => Some(preset.map(|p| p.water_content).unwrap_or(0.0)),
     };
@@ -277,10 +389,34 @@ fn layer(doc: &LayerDoc, last: bool, path: &KeyPath, v: &mut Validator) -> Optio
     };
     // Soils and rock span about 0.2 (dry peat) to 6 W/(m K) (quartzite); heat capacity about
     // 0.5–4.5 MJ/(m3 K) (common practice, no source).
-    v.plausible(k, (0.2, 6.0), &path.key("conductivity"), "a soil conductivity", "W/(m K)");
-    v.plausible(k_f, (0.2, 6.0), &path.key("frozen_conductivity"), "a frozen soil conductivity", "W/(m K)");
-    v.plausible(c.map(|c| c / 1e6), (0.5, 4.5), &path.key("heat_capacity"), "a volumetric heat capacity", "MJ/(m3 K)");
-    v.plausible(c_f.map(|c| c / 1e6), (0.5, 4.5), &path.key("frozen_heat_capacity"), "a frozen volumetric heat capacity", "MJ/(m3 K)");
+    v.plausible(
+        k,
+        (0.2, 6.0),
+        &path.key("conductivity"),
+        "a soil conductivity",
+        "W/(m K)",
+    );
+    v.plausible(
+        k_f,
+        (0.2, 6.0),
+        &path.key("frozen_conductivity"),
+        "a frozen soil conductivity",
+        "W/(m K)",
+    );
+    v.plausible(
+        c.map(|c| c / 1e6),
+        (0.5, 4.5),
+        &path.key("heat_capacity"),
+        "a volumetric heat capacity",
+        "MJ/(m3 K)",
+    );
+    v.plausible(
+        c_f.map(|c| c / 1e6),
+        (0.5, 4.5),
+        &path.key("frozen_heat_capacity"),
+        "a frozen volumetric heat capacity",
+        "MJ/(m3 K)",
+    );
     let w = w?;
     Some(SoilLayer {
         name: doc.name.clone(),
@@ -298,12 +434,22 @@ fn layer(doc: &LayerDoc, last: bool, path: &KeyPath, v: &mut Validator) -> Optio
 
 /// A required, positive property: from the file, else from the preset, else an error naming both
 /// ways to give it.
-fn property<D: Dim>(v: &mut Validator, given: &Option<Q<D>>, from_preset: Option<f64>, path: &KeyPath, key: &str, what: &str) -> Option<f64> {
+fn property<D: Dim>(
+    v: &mut Validator,
+    given: &Option<Q<D>>,
+    from_preset: Option<f64>,
+    path: &KeyPath,
+    key: &str,
+    what: &str,
+) -> Option<f64> {
     let p = path.key(key);
     let value = match (v.opt_q(given, &p)?, from_preset) {
         (Some(x), _) | (None, Some(x)) => x,
         (None, None) => {
-            v.out.error(&p, format!("the required key `{key}` is missing: give {what} or name a `soil` preset"));
+            v.out.error(
+                &p,
+                format!("the required key `{key}` is missing: give {what} or name a `soil` preset"),
+            );
             return None;
         }
     };
@@ -316,10 +462,19 @@ fn studies(docs: &[StudyDoc], path: &KeyPath, v: &mut Validator) -> Option<Vec<S
     for (i, s) in docs.iter().enumerate() {
         let p = path.index(i);
         if s.id.trim().is_empty() {
-            v.out.error(&p.key("id"), "a study id must not be empty; it names the study in the report and in file names");
+            v.out.error(
+                &p.key("id"),
+                "a study id must not be empty; it names the study in the report and in file names",
+            );
             ok = false;
         } else if let Some(first) = seen.insert(s.id.as_str(), i) {
-            v.out.error(&p.key("id"), format!("the study id `{}` is already used by studies[{first}]; ids must be unique", s.id));
+            v.out.error(
+                &p.key("id"),
+                format!(
+                    "the study id `{}` is already used by studies[{first}]; ids must be unique",
+                    s.id
+                ),
+            );
             ok = false;
         }
         if !SUPPORTED_KINDS.contains(&s.kind.as_str()) {
@@ -333,7 +488,10 @@ fn studies(docs: &[StudyDoc], path: &KeyPath, v: &mut Validator) -> Option<Vec<S
             } else {
                 format!("`{}` is not a study kind", s.kind)
             };
-            v.out.error(&p.key("kind"), format!("{what}; this version supports: {supported}"));
+            v.out.error(
+                &p.key("kind"),
+                format!("{what}; this version supports: {supported}"),
+            );
             ok = false;
         }
     }

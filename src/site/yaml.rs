@@ -111,8 +111,7 @@ impl Builder {
                 let value = if tag.is_some() {
                     return Err(YamlError {
                         loc,
-                        message: "YAML tags (`!name`) are not used in site files; remove the tag"
-                            .into(),
+                        message: "YAML tags (`!name`) are not used in site files; remove the tag".into(),
                     });
                 } else {
                     resolve_scalar(&text, style)
@@ -129,9 +128,7 @@ impl Builder {
                 node.loc = loc;
                 self.attach(node, loc)?;
             }
-            Event::SequenceStart(anchor, tag) | Event::MappingStart(anchor, tag)
-                if tag.is_some() =>
-            {
+            Event::SequenceStart(anchor, tag) | Event::MappingStart(anchor, tag) if tag.is_some() => {
                 let _ = anchor;
                 return Err(YamlError {
                     loc,
@@ -165,10 +162,7 @@ impl Builder {
                         anchor,
                     ),
                     Some(Frame::Map {
-                        anchor,
-                        loc,
-                        entries,
-                        ..
+                        anchor, loc, entries, ..
                     }) => (
                         Node {
                             value: Value::Map(entries),
@@ -181,10 +175,7 @@ impl Builder {
                 self.remember(anchor, &node);
                 self.attach(node, loc)?;
             }
-            Event::StreamStart
-            | Event::StreamEnd
-            | Event::DocumentEnd
-            | Event::Nothing => {}
+            Event::StreamStart | Event::StreamEnd | Event::DocumentEnd | Event::Nothing => {}
         }
         Ok(())
     }
@@ -230,9 +221,7 @@ impl Builder {
             None => self.root = Some(node),
             Some(Frame::Seq { items, .. }) => items.push(node),
             Some(Frame::Map {
-                entries,
-                pending_key,
-                ..
+                entries, pending_key, ..
             }) => match pending_key.take() {
                 None => {
                     let name = match node.value {
@@ -262,10 +251,7 @@ impl Builder {
                             ),
                         });
                     }
-                    *pending_key = Some(Key {
-                        name,
-                        loc: node.loc,
-                    });
+                    *pending_key = Some(Key { name, loc: node.loc });
                 }
                 Some(key) => entries.push((key, node)),
             },
@@ -334,7 +320,10 @@ fn parse_core_number(text: &str) -> Option<f64> {
         && body
             .chars()
             .all(|c| c.is_ascii_digit() || matches!(c, '.' | 'e' | 'E' | '+' | '-'))
-        && body.chars().next().is_some_and(|c| c.is_ascii_digit() || c == '.')
+        && body
+            .chars()
+            .next()
+            .is_some_and(|c| c.is_ascii_digit() || c == '.')
         && body.chars().any(|c| c.is_ascii_digit());
     if !numeric {
         return None;

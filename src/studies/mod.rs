@@ -9,7 +9,11 @@ use crate::model::{Site, Study};
 use crate::results::{StudyResult, Warning};
 
 /// Runs one study against the site's undisturbed ground.
-pub fn run(study: &Study, _site: &Site, _ground: &Undisturbed) -> Result<(StudyResult, Vec<Warning>), String> {
+pub fn run(
+    study: &Study,
+    _site: &Site,
+    _ground: &Undisturbed,
+) -> Result<(StudyResult, Vec<Warning>), String> {
     match study.kind {}
 }
 
