@@ -44,17 +44,15 @@ pub fn materials_table() -> String {
         "name", "max fraction"
     );
     for m in fluids::Mixture::all() {
-        let points: Vec<String> = [0.1, 0.2, 0.3]
+        let fractions: &[f64] = if m == fluids::Mixture::Water {
+            &[0.0]
+        } else {
+            &[0.1, 0.2, 0.3]
+        };
+        let points: Vec<String> = fractions
             .iter()
-            .map(
-                |&x| match fluids::Fluid::new(m, if m == fluids::Mixture::Water { 0.0 } else { x }) {
-                    Ok(f) if m != fluids::Mixture::Water || x == 0.1 => {
-                        format!("{:.1} °C", f.freezing_point_c())
-                    }
-                    Ok(_) => "—".into(),
-                    Err(_) => "—".into(),
-                },
-            )
+            .filter_map(|&x| fluids::Fluid::new(m, x).ok())
+            .map(|f| format!("{:.1} °C", f.freezing_point_c()))
             .collect();
         let _ = writeln!(
             s,
