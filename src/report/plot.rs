@@ -7,10 +7,10 @@
 //! names the font family `"DejaVu Sans, sans-serif"` and references no external resource.
 
 use plotters::coord::Shift;
-use plotters::element::{DashedPathElement, Polygon};
+use plotters::element::{BitMapElement, DashedPathElement, Polygon};
 use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
-use plotters::style::{FontStyle, register_font};
+use plotters::style::{register_font, FontStyle};
 use std::sync::OnceLock;
 
 /// Family name under which the bundled font is registered. It doubles as the CSS font-family
@@ -24,7 +24,12 @@ const MIN_SIDE_PX: u32 = 160;
 const MAX_SIDE_PX: u32 = 8000;
 
 /// Fraction of the data span added on each side of an automatic axis range.
-const AUTO_RANGE_PAD: f64 = 0.0;
+const AUTO_RANGE_PAD: f64 = 0.05;
+
+/// A point in data coordinates.
+type Point = (f64, f64);
+/// A connected line through data points.
+type Polyline = Vec<Point>;
 
 /// Registers the bundled font with plotters exactly once per process.
 fn ensure_font() -> Result<(), String> {
@@ -40,8 +45,8 @@ fn ensure_font() -> Result<(), String> {
 /// Colour-blind-safe qualitative palette, as sRGB bytes.
 ///
 /// Values are the eight colours of Okabe, M. and Ito, K. (2008), "Color Universal Design (CUD):
-/// how to make figures and presentations that are friendly to colorblind people" (J*Fly, Univ.
-/// of Tokyo), in burrow's own order: the six mid-lightness hues first, black seventh and the pale
+/// how to make figures and presentations that are friendly to colorblind people" (web
+/// publication; sRGB bytes from memory, as widely reproduced), in burrow's own order: the six mid-lightness hues first, black seventh and the pale
 /// yellow last because it has little contrast on white. Hue alone does not survive grey print,
 /// so series are also told apart by [`SeriesStyle`] (solid, dashed, dotted, markers) and each
 /// palette index has its own marker shape (circle, hollow square, triangle, cross, repeating).
@@ -131,7 +136,11 @@ pub struct Rendered {
 }
 
 /// Renders `plot` at `width_px` x `height_px` pixels as SVG and PNG.
-pub fn render_line_plot(plot: &LinePlot, width_px: u32, height_px: u32) -> Result<Rendered, String> {
+pub fn render_line_plot(
+    plot: &LinePlot,
+    width_px: u32,
+    height_px: u32,
+) -> Result<Rendered, String> {
     check_size(width_px, height_px)?;
     ensure_font()?;
     let prepared = prepare_line_plot(plot)?;
@@ -155,7 +164,12 @@ fn check_size(width_px: u32, height_px: u32) -> Result<(), String> {
 
 /// Something that can draw itself on any plotters backend.
 trait Drawing {
-    fn draw_on<DB: DrawingBackend>(&self, root: &DrawingArea<DB, Shift>) -> Result<(), String>;
+    /// `is_svg` tells the drawing which backend it is on (the field raster differs).
+    fn draw_on<DB: DrawingBackend>(
+        &self,
+        root: &DrawingArea<DB, Shift>,
+        is_svg: bool,
+    ) -> Result<(), String>;
 }
 
 /// Runs the same drawing on an SVG and a bitmap backend and encodes the bitmap as PNG.
@@ -163,13 +177,13 @@ fn render_both<D: Drawing>(width_px: u32, height_px: u32, drawing: &D) -> Result
     let mut svg = String::new();
     {
         let root = SVGBackend::with_string(&mut svg, (width_px, height_px)).into_drawing_area();
-        drawing.draw_on(&root)?;
+        drawing.draw_on(&root, true)?;
         root.present().map_err(drawing_error)?;
     }
     let mut rgb = vec![0u8; width_px as usize * height_px as usize * 3];
     {
         let root = BitMapBackend::with_buffer(&mut rgb, (width_px, height_px)).into_drawing_area();
-        drawing.draw_on(&root)?;
+        drawing.draw_on(&root, false)?;
         root.present().map_err(drawing_error)?;
     }
     let png = encode_png(&rgb, width_px, height_px)?;
@@ -188,7 +202,9 @@ fn encode_png(rgb: &[u8], width_px: u32, height_px: u32) -> Result<Vec<u8>, Stri
     writer
         .write_image_data(rgb)
         .map_err(|e| format!("PNG encoding failed: {e}"))?;
-    writer.finish().map_err(|e| format!("PNG encoding failed: {e}"))?;
+    writer
+        .finish()
+        .map_err(|e| format!("PNG encoding failed: {e}"))?;
     Ok(out)
 }
 
@@ -199,7 +215,9 @@ fn drawing_error<E: std::fmt::Debug>(e: E) -> String {
 /// Replaces control characters (invalid in XML 1.0 even when escaped, and meaningless in a
 /// label) by spaces. Markup characters are escaped by the SVG backend itself.
 fn clean_text(s: &str) -> String {
-    s.chars().map(|c| if c.is_control() { ' ' } else { c }).collect()
+    s.chars()
+        .map(|c| if c.is_control() { ' ' } else { c })
+        .collect()
 }
 
 /// Text sizes in plotters' size unit (pixels of ascent + descent), scaled with the image.
@@ -271,7 +289,7 @@ impl Bounds {
 
 /// Clips the segment a-b to `b` (Liang-Barsky). Returns the visible part and whether its start
 /// and end were moved.
-fn clip_segment(a: (f64, f64), b: (f64, f64), bx: &Bounds) -> Option<((f64, f64), (f64, f64), bool, bool)> {
+fn clip_segment(a: (f64, f64), b: (f64, f64), bx: &Bounds) -> Option<(Point, Point, bool, bool)> {
     let (dx, dy) = (b.0 - a.0, b.1 - a.1);
     let (mut t0, mut t1) = (0.0_f64, 1.0_f64);
     for (p, q) in [
@@ -494,7 +512,9 @@ fn prepare_line_plot(plot: &LinePlot) -> Result<PreparedLinePlot, String> {
     }
     for (v, label) in plot.hlines.iter().chain(&plot.vlines) {
         if !v.is_finite() {
-            return Err(format!("reference line '{label}' is at {v}; give a finite value"));
+            return Err(format!(
+                "reference line '{label}' is at {v}; give a finite value"
+            ));
         }
     }
 
@@ -508,12 +528,20 @@ fn prepare_line_plot(plot: &LinePlot) -> Result<PreparedLinePlot, String> {
     };
     let (x0, x1) = match plot.x_range {
         Some(r) => checked_range(r, "x_range")?,
-        None => auto_range(all_points().map(|p| p.0).chain(plot.vlines.iter().map(|l| l.0))),
+        None => auto_range(
+            all_points()
+                .map(|p| p.0)
+                .chain(plot.vlines.iter().map(|l| l.0)),
+        ),
     };
     let (y0, y1) = match plot.y_range {
         Some(r) => {
             let (lo, hi) = checked_range(r, "y_range")?;
-            if plot.y_down { (-hi, -lo) } else { (lo, hi) }
+            if plot.y_down {
+                (-hi, -lo)
+            } else {
+                (lo, hi)
+            }
         }
         None => auto_range(
             all_points()
@@ -529,7 +557,10 @@ fn prepare_line_plot(plot: &LinePlot) -> Result<PreparedLinePlot, String> {
         .zip(series_runs)
         .map(|(s, runs)| PreparedSeries {
             name: clean_text(&s.name),
-            runs: runs.iter().flat_map(|r| clip_polyline(r, &bounds)).collect(),
+            runs: runs
+                .iter()
+                .flat_map(|r| clip_polyline(r, &bounds))
+                .collect(),
             style: s.style,
             colour: s.colour,
         })
@@ -597,7 +628,11 @@ impl Strokes {
 }
 
 impl Drawing for PreparedLinePlot {
-    fn draw_on<DB: DrawingBackend>(&self, root: &DrawingArea<DB, Shift>) -> Result<(), String> {
+    fn draw_on<DB: DrawingBackend>(
+        &self,
+        root: &DrawingArea<DB, Shift>,
+        _is_svg: bool,
+    ) -> Result<(), String> {
         draw_line_plot(root, self)
     }
 }
@@ -681,8 +716,11 @@ fn draw_line_plot<DB: DrawingBackend>(
     for band in &p.bands {
         let c = rgb(band.colour);
         if band.polygon.len() >= 3 {
-            area.draw(&Polygon::new(band.polygon.clone(), c.mix(BAND_ALPHA).filled()))
-                .map_err(drawing_error)?;
+            area.draw(&Polygon::new(
+                band.polygon.clone(),
+                c.mix(BAND_ALPHA).filled(),
+            ))
+            .map_err(drawing_error)?;
         }
         for edge in [&band.lower, &band.upper] {
             for piece in clip_polyline(edge, &b) {
@@ -788,8 +826,14 @@ fn draw_line_plot<DB: DrawingBackend>(
 /// Opacity of band fills.
 const BAND_ALPHA: f64 = 0.22;
 
-fn text_width<DB: DrawingBackend>(root: &DrawingArea<DB, Shift>, text: &str, style: &TextStyle) -> u32 {
-    root.estimate_text_size(text, style).map(|s| s.0).unwrap_or(0)
+fn text_width<DB: DrawingBackend>(
+    root: &DrawingArea<DB, Shift>,
+    text: &str,
+    style: &TextStyle,
+) -> u32 {
+    root.estimate_text_size(text, style)
+        .map(|s| s.0)
+        .unwrap_or(0)
 }
 
 /// Draws a polyline of at least two points in the given line style.
@@ -806,7 +850,12 @@ where
 {
     let line = c.stroke_width(strokes.line);
     match style {
-        SeriesStyle::Dashed => area.draw(&DashedPathElement::new(points, strokes.dash, strokes.gap, line)),
+        SeriesStyle::Dashed => area.draw(&DashedPathElement::new(
+            points,
+            strokes.dash,
+            strokes.gap,
+            line,
+        )),
         SeriesStyle::Dotted => area.draw(&DashedPathElement::new(
             points,
             strokes.line as i32,
@@ -834,7 +883,8 @@ where
     match shape % 4 {
         0 => area.draw(&Circle::new(at, size, c.filled())),
         1 => area.draw(
-            &(EmptyElement::at(at) + Rectangle::new([(-size, -size), (size, size)], c.stroke_width(2))),
+            &(EmptyElement::at(at)
+                + Rectangle::new([(-size, -size), (size, size)], c.stroke_width(2))),
         ),
         2 => area.draw(&TriangleMarker::new(at, size + 1, c.filled())),
         _ => area.draw(&Cross::new(at, size, c.stroke_width(2))),
@@ -906,7 +956,13 @@ fn draw_legend<DB: DrawingBackend>(
         match e.key {
             LegendKey::Series(style, colour) => {
                 if style != SeriesStyle::Markers {
-                    draw_styled_line(pixels, vec![(kx0, yc), (kx1, yc)], style, rgb(colour), strokes)?;
+                    draw_styled_line(
+                        pixels,
+                        vec![(kx0, yc), (kx1, yc)],
+                        style,
+                        rgb(colour),
+                        strokes,
+                    )?;
                 }
                 if matches!(style, SeriesStyle::Markers | SeriesStyle::LineMarkers) {
                     draw_marker(pixels, ((kx0 + kx1) / 2, yc), colour, strokes.marker)?;
@@ -986,6 +1042,757 @@ fn legend_corner(p: &PreparedLinePlot, legend_px: (i32, i32), area_px: (u32, u32
     best.1
 }
 
+// ---------------------------------------------------------------------------------------------
+// Field plot
+// ---------------------------------------------------------------------------------------------
+
+/// 16 equally spaced stops (t = k/15) of the 'viridis' colour map of S. van der Walt and
+/// N. Smith (2015), the perceptually uniform sequential map made the default of matplotlib 2.0.
+/// Its lightness rises monotonically from dark violet to light yellow, so it reads in grey
+/// print and for colour-blind readers. Values taken from matplotlib 3.11.2 by
+/// `tests/reference/viridis_reference.py`.
+const VIRIDIS_16: [(u8, u8, u8); 16] = [
+    (68, 1, 84),
+    (72, 26, 108),
+    (71, 47, 125),
+    (65, 68, 135),
+    (57, 86, 140),
+    (49, 104, 142),
+    (42, 120, 142),
+    (35, 136, 142),
+    (31, 152, 139),
+    (34, 168, 132),
+    (53, 183, 121),
+    (84, 197, 104),
+    (122, 209, 81),
+    (165, 219, 54),
+    (210, 226, 27),
+    (253, 231, 37),
+];
+
+/// Colour drawn where a field value is not finite.
+const NO_DATA_RGB: (u8, u8, u8) = (200, 200, 200);
+
+/// Sequential colour map for fields: `t` in 0..=1 (clamped) from low to high, linear in sRGB
+/// between the tabulated viridis stops ([`VIRIDIS_16`]). A non-finite `t` gives light grey.
+pub fn colour_map(t: f64) -> (u8, u8, u8) {
+    if !t.is_finite() {
+        return NO_DATA_RGB;
+    }
+    let last = (VIRIDIS_16.len() - 1) as f64;
+    let s = t.clamp(0.0, 1.0) * last;
+    let i = (s.floor() as usize).min(VIRIDIS_16.len() - 2);
+    let f = s - i as f64;
+    let (a, b) = (VIRIDIS_16[i], VIRIDIS_16[i + 1]);
+    let mix = |p: u8, q: u8| (f64::from(p) + f * (f64::from(q) - f64::from(p))).round() as u8;
+    (mix(a.0, b.0), mix(a.1, b.1), mix(a.2, b.2))
+}
+
+/// A 2-D field on a rectilinear grid, e.g. ground temperature around a buried pipe, drawn with
+/// depth growing downward, a colour bar, labelled isotherms and labelled point markers.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct FieldPlot {
+    /// Drawn above the plot; empty for none.
+    pub title: String,
+    /// Axis labels as given, e.g. "Horizontal distance (m)" and "Depth (m)".
+    pub x_label: String,
+    pub z_label: String,
+    /// Label of the colour bar, e.g. "Temperature (°C)".
+    pub colour_bar_label: String,
+    /// Node positions, strictly increasing, in metres.
+    pub x_m: Vec<f64>,
+    /// Node depths, strictly increasing (downward), in metres.
+    pub z_m: Vec<f64>,
+    /// Node values, `values[iz][ix]`; non-finite values are shown grey and skipped by
+    /// isotherms.
+    pub values: Vec<Vec<f64>>,
+    /// (min, max) of the colour scale; `None` uses the finite data range.
+    pub value_range: Option<(f64, f64)>,
+    /// Values at which isotherms are drawn and labelled.
+    pub isotherms: Vec<f64>,
+    /// Labelled points (x_m, z_m, label), e.g. a pipe axis.
+    pub markers: Vec<(f64, f64, String)>,
+}
+
+/// Renders `plot` at `width_px` x `height_px` pixels as SVG and PNG. In the SVG the colour
+/// raster is an embedded PNG (`data:` URI), not a link.
+pub fn render_field_plot(
+    plot: &FieldPlot,
+    width_px: u32,
+    height_px: u32,
+) -> Result<Rendered, String> {
+    check_size(width_px, height_px)?;
+    ensure_font()?;
+    let prepared = prepare_field_plot(plot)?;
+    let mut out = render_both(width_px, height_px, &prepared)?;
+    let raster = prepared
+        .svg_raster
+        .take()
+        .ok_or("field raster was not produced")?;
+    out.svg = embed_raster(&out.svg, &raster)?;
+    Ok(out)
+}
+
+/// One straight piece of an isoline, endpoints in data coordinates.
+pub type Segment = ((f64, f64), (f64, f64));
+
+/// Isoline of `level` through a field given at nodes (`x[ix]`, `z[iz]`) with values
+/// `values[iz][ix]`, by marching squares with linear interpolation along cell edges
+/// (W. E. Lorensen and H. E. Cline, 1987, "Marching cubes", SIGGRAPH '87, in its 2-D form).
+/// A node counts as inside when its value is >= `level`; the two saddle cases are resolved by
+/// the mean of the four corners. Cells with a non-finite corner are skipped, and so are
+/// zero-length pieces (a node exactly at the level). Endpoints on an
+/// edge shared by two cells are bit-identical, so the segments can be chained exactly.
+/// The grid must be at least 2 x 2 with `values` of matching shape (not checked here beyond
+/// skipping what does not exist).
+pub fn isoline_segments(x: &[f64], z: &[f64], values: &[Vec<f64>], level: f64) -> Vec<Segment> {
+    let mut segs = Vec::new();
+    if x.len() < 2 || z.len() < 2 || !level.is_finite() {
+        return segs;
+    }
+    let node = |iz: usize, ix: usize| values.get(iz).and_then(|r| r.get(ix)).copied();
+    // Crossing on the edge between two nodes, always interpolated from the lower-index node
+    // so that neighbouring cells get identical points.
+    let cross = |n1: (usize, usize), n2: (usize, usize), v1: f64, v2: f64| {
+        let ((a, va), (b, vb)) = if n1 <= n2 {
+            ((n1, v1), (n2, v2))
+        } else {
+            ((n2, v2), (n1, v1))
+        };
+        let t = (level - va) / (vb - va);
+        (
+            x[a.1] + t * (x[b.1] - x[a.1]),
+            z[a.0] + t * (z[b.0] - z[a.0]),
+        )
+    };
+    for iz in 0..z.len() - 1 {
+        for ix in 0..x.len() - 1 {
+            // Corners in cyclic order: top-left, top-right, bottom-right, bottom-left.
+            let ids = [(iz, ix), (iz, ix + 1), (iz + 1, ix + 1), (iz + 1, ix)];
+            let mut v = [0.0; 4];
+            let mut ok = true;
+            for (k, &(r, c)) in ids.iter().enumerate() {
+                match node(r, c) {
+                    Some(val) if val.is_finite() => v[k] = val,
+                    _ => ok = false,
+                }
+            }
+            if !ok {
+                continue;
+            }
+            let inside = v.map(|val| val >= level);
+            // Crossing on edge k (between corner k and corner k+1), if any.
+            let mut edge = [None; 4];
+            for k in 0..4 {
+                let j = (k + 1) % 4;
+                if inside[k] != inside[j] {
+                    edge[k] = Some(cross(ids[k], ids[j], v[k], v[j]));
+                }
+            }
+            let crossed: Vec<(f64, f64)> = edge.iter().flatten().copied().collect();
+            let mut push = |a: (f64, f64), b: (f64, f64)| {
+                // A node exactly at the level puts two crossings on it; skip the empty piece.
+                if a != b {
+                    segs.push((a, b));
+                }
+            };
+            match crossed.len() {
+                2 => push(crossed[0], crossed[1]),
+                4 => {
+                    let e = |k: usize| edge[k].unwrap_or_default();
+                    let centre_inside = (v[0] + v[1] + v[2] + v[3]) / 4.0 >= level;
+                    if centre_inside == inside[0] {
+                        // Corners 0 and 2 connect through the centre: cut off 1 and 3.
+                        push(e(0), e(1));
+                        push(e(2), e(3));
+                    } else {
+                        // Cut off corners 0 and 2.
+                        push(e(3), e(0));
+                        push(e(1), e(2));
+                    }
+                }
+                _ => {}
+            }
+        }
+    }
+    segs
+}
+
+/// Joins segments that share endpoints into polylines. A closed loop repeats its first point
+/// at the end.
+pub fn chain_segments(segs: &[Segment]) -> Vec<Vec<(f64, f64)>> {
+    use std::collections::HashMap;
+    let key = |p: (f64, f64)| (p.0.to_bits(), p.1.to_bits());
+    let mut at: HashMap<(u64, u64), Vec<usize>> = HashMap::new();
+    for (i, s) in segs.iter().enumerate() {
+        at.entry(key(s.0)).or_default().push(i);
+        at.entry(key(s.1)).or_default().push(i);
+    }
+    let mut used = vec![false; segs.len()];
+    let mut lines = Vec::new();
+    // Follows unused segments from `end`, appending their far endpoints.
+    let extend = |line: &mut Vec<(f64, f64)>, used: &mut Vec<bool>| loop {
+        let end = line[line.len() - 1];
+        let next = at
+            .get(&key(end))
+            .and_then(|c| c.iter().copied().find(|&i| !used[i]));
+        match next {
+            Some(i) => {
+                used[i] = true;
+                let s = segs[i];
+                line.push(if key(s.0) == key(end) { s.1 } else { s.0 });
+            }
+            None => break,
+        }
+    };
+    for i in 0..segs.len() {
+        if used[i] {
+            continue;
+        }
+        used[i] = true;
+        let mut line = vec![segs[i].0, segs[i].1];
+        extend(&mut line, &mut used);
+        line.reverse();
+        extend(&mut line, &mut used);
+        lines.push(line);
+    }
+    lines
+}
+
+/// Standard base64 (RFC 4648, section 4) with padding.
+fn base64(bytes: &[u8]) -> String {
+    const ABC: &[u8; 64] = b"ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz0123456789+/";
+    let mut out = String::with_capacity(bytes.len().div_ceil(3) * 4);
+    for chunk in bytes.chunks(3) {
+        let b = [
+            chunk[0],
+            *chunk.get(1).unwrap_or(&0),
+            *chunk.get(2).unwrap_or(&0),
+        ];
+        let n = (u32::from(b[0]) << 16) | (u32::from(b[1]) << 8) | u32::from(b[2]);
+        for k in 0..4 {
+            if k <= chunk.len() {
+                out.push(ABC[((n >> (18 - 6 * k)) & 63) as usize] as char);
+            } else {
+                out.push('=');
+            }
+        }
+    }
+    out
+}
+
+/// Placeholder colour of the raster rectangle in the SVG, replaced by the embedded image.
+const RASTER_PLACEHOLDER: RGBColor = RGBColor(1, 2, 3);
+
+/// The colour raster of the plotting area, as drawn into the SVG.
+struct Raster {
+    left: i32,
+    top: i32,
+    width: u32,
+    height: u32,
+    rgb: Vec<u8>,
+}
+
+/// Replaces the placeholder rectangle in `svg` by an `<image>` holding `raster` as PNG.
+fn embed_raster(svg: &str, raster: &Raster) -> Result<String, String> {
+    let needle = "fill=\"#010203\"";
+    let at = svg
+        .find(needle)
+        .ok_or("field raster placeholder missing from SVG")?;
+    if svg[at + needle.len()..].contains(needle) {
+        return Err("field raster placeholder found twice in SVG".into());
+    }
+    let start = svg[..at]
+        .rfind("<rect")
+        .ok_or("malformed raster placeholder")?;
+    let end = at + svg[at..].find("/>").ok_or("malformed raster placeholder")? + 2;
+    let png_bytes = encode_png(&raster.rgb, raster.width, raster.height)?;
+    let image = format!(
+        "<image x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\" preserveAspectRatio=\"none\" href=\"data:image/png;base64,{}\"/>",
+        raster.left,
+        raster.top,
+        raster.width,
+        raster.height,
+        base64(&png_bytes)
+    );
+    Ok(format!("{}{}{}", &svg[..start], image, &svg[end..]))
+}
+
+/// A validated field plot.
+struct PreparedFieldPlot {
+    title: String,
+    x_label: String,
+    z_label: String,
+    colour_bar_label: String,
+    x_m: Vec<f64>,
+    z_m: Vec<f64>,
+    values: Vec<Vec<f64>>,
+    value_range: (f64, f64),
+    /// (level, its chained isolines).
+    isolines: Vec<(f64, Vec<Polyline>)>,
+    markers: Vec<(f64, f64, String)>,
+    /// Filled by the SVG pass: the raster to embed.
+    svg_raster: std::cell::RefCell<Option<Raster>>,
+}
+
+fn strictly_increasing_finite(v: &[f64]) -> bool {
+    v.len() >= 2 && v.iter().all(|a| a.is_finite()) && v.windows(2).all(|w| w[0] < w[1])
+}
+
+fn prepare_field_plot(plot: &FieldPlot) -> Result<PreparedFieldPlot, String> {
+    if !strictly_increasing_finite(&plot.x_m) {
+        return Err("x_m must hold at least two finite, strictly increasing positions".into());
+    }
+    if !strictly_increasing_finite(&plot.z_m) {
+        return Err("z_m must hold at least two finite, strictly increasing depths".into());
+    }
+    if plot.values.len() != plot.z_m.len() || plot.values.iter().any(|r| r.len() != plot.x_m.len())
+    {
+        return Err(format!(
+            "values must have {} rows (one per z_m) of {} values (one per x_m)",
+            plot.z_m.len(),
+            plot.x_m.len()
+        ));
+    }
+    let finite = plot
+        .values
+        .iter()
+        .flatten()
+        .copied()
+        .filter(|v| v.is_finite());
+    let (lo, hi) = finite.fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), v| {
+        (lo.min(v), hi.max(v))
+    });
+    if !lo.is_finite() {
+        return Err("values has no finite entry; give at least one".into());
+    }
+    let value_range = match plot.value_range {
+        Some(r) => checked_range(r, "value_range")?,
+        None if hi > lo => (lo, hi),
+        None => (lo - 0.5, hi + 0.5),
+    };
+    if let Some(v) = plot.isotherms.iter().find(|v| !v.is_finite()) {
+        return Err(format!(
+            "isotherm value {v} is not finite; give finite values"
+        ));
+    }
+    if let Some(m) = plot
+        .markers
+        .iter()
+        .find(|m| !m.0.is_finite() || !m.1.is_finite())
+    {
+        return Err(format!(
+            "marker '{}' is at ({}, {}); give finite coordinates",
+            m.2, m.0, m.1
+        ));
+    }
+    let isolines = plot
+        .isotherms
+        .iter()
+        .map(|&level| {
+            let segs = isoline_segments(&plot.x_m, &plot.z_m, &plot.values, level);
+            (level, chain_segments(&segs))
+        })
+        .collect();
+    Ok(PreparedFieldPlot {
+        title: clean_text(&plot.title),
+        x_label: clean_text(&plot.x_label),
+        z_label: clean_text(&plot.z_label),
+        colour_bar_label: clean_text(&plot.colour_bar_label),
+        x_m: plot.x_m.clone(),
+        z_m: plot.z_m.clone(),
+        values: plot.values.clone(),
+        value_range,
+        isolines,
+        markers: plot
+            .markers
+            .iter()
+            .map(|(x, z, l)| (*x, *z, clean_text(l)))
+            .collect(),
+        svg_raster: std::cell::RefCell::new(None),
+    })
+}
+
+/// Index of the grid interval holding `v` (clamped to the grid) and the fraction within it.
+fn locate(grid: &[f64], v: f64) -> (usize, f64) {
+    let n = grid.len();
+    let i = grid.partition_point(|&g| g <= v).clamp(1, n - 1) - 1;
+    let f = ((v - grid[i]) / (grid[i + 1] - grid[i])).clamp(0.0, 1.0);
+    (i, f)
+}
+
+impl PreparedFieldPlot {
+    /// Bilinear interpolation of the node values; NaN if a needed corner is not finite.
+    fn value_at(&self, (ix, fx): (usize, f64), (iz, fz): (usize, f64)) -> f64 {
+        let v = &self.values;
+        let top = v[iz][ix] + fx * (v[iz][ix + 1] - v[iz][ix]);
+        let bottom = v[iz + 1][ix] + fx * (v[iz + 1][ix + 1] - v[iz + 1][ix]);
+        top + fz * (bottom - top)
+    }
+
+    /// [`colour_map`] of the value scaled to the colour range, through a 1024-entry table
+    /// (steps far below one byte) because the raster asks for it once per pixel.
+    fn colour_of(&self, value: f64) -> (u8, u8, u8) {
+        const N: usize = 1024;
+        static TABLE: OnceLock<Vec<(u8, u8, u8)>> = OnceLock::new();
+        let table = TABLE.get_or_init(|| {
+            (0..N)
+                .map(|k| colour_map(k as f64 / (N - 1) as f64))
+                .collect()
+        });
+        let (lo, hi) = self.value_range;
+        let t = (value - lo) / (hi - lo);
+        if t.is_finite() {
+            table[(t.clamp(0.0, 1.0) * (N - 1) as f64).round() as usize]
+        } else {
+            NO_DATA_RGB
+        }
+    }
+
+    /// RGB raster of the plotting area (`width` x `height` pixels).
+    fn raster(&self, width: u32, height: u32) -> Vec<u8> {
+        let (x0, x1) = (self.x_m[0], self.x_m[self.x_m.len() - 1]);
+        let (z0, z1) = (self.z_m[0], self.z_m[self.z_m.len() - 1]);
+        let cols: Vec<_> = (0..width)
+            .map(|i| {
+                locate(
+                    &self.x_m,
+                    x0 + (f64::from(i) + 0.5) / f64::from(width) * (x1 - x0),
+                )
+            })
+            .collect();
+        let mut rgb = Vec::with_capacity(width as usize * height as usize * 3);
+        for j in 0..height {
+            let row = locate(
+                &self.z_m,
+                z0 + (f64::from(j) + 0.5) / f64::from(height) * (z1 - z0),
+            );
+            for &col in &cols {
+                let (r, g, b) = self.colour_of(self.value_at(col, row));
+                rgb.extend_from_slice(&[r, g, b]);
+            }
+        }
+        rgb
+    }
+}
+
+/// Tick values at a 1-2-5 step giving about `target` ticks over lo..hi.
+fn nice_ticks(lo: f64, hi: f64, target: usize) -> Vec<f64> {
+    let raw = (hi - lo) / target.max(1) as f64;
+    if !(raw > 0.0 && raw.is_finite()) {
+        return vec![lo];
+    }
+    let mag = 10f64.powf(raw.log10().floor());
+    let step = [1.0, 2.0, 5.0, 10.0]
+        .iter()
+        .map(|m| m * mag)
+        .find(|s| *s >= raw)
+        .unwrap_or(10.0 * mag);
+    // A relative slack so that ends that are multiples of the step survive rounding.
+    let first = (lo / step - 1e-9).ceil() as i64;
+    let last = (hi / step + 1e-9).floor() as i64;
+    (first..=last).map(|k| k as f64 * step).collect()
+}
+
+impl Drawing for PreparedFieldPlot {
+    fn draw_on<DB: DrawingBackend>(
+        &self,
+        root: &DrawingArea<DB, Shift>,
+        is_svg: bool,
+    ) -> Result<(), String> {
+        draw_field_plot(root, self, is_svg)
+    }
+}
+
+fn draw_field_plot<DB: DrawingBackend>(
+    root: &DrawingArea<DB, Shift>,
+    p: &PreparedFieldPlot,
+    is_svg: bool,
+) -> Result<(), String> {
+    let (w, h) = root.dim_in_pixel();
+    let fonts = FontSizes::for_image(w, h);
+    let tick_font = font(fonts.tick);
+    let label_font = font(fonts.label);
+    root.fill(&WHITE).map_err(drawing_error)?;
+
+    let (x0, x1) = (p.x_m[0], p.x_m[p.x_m.len() - 1]);
+    let (z0, z1) = (p.z_m[0], p.z_m[p.z_m.len() - 1]);
+    let (v0, v1) = p.value_range;
+    let (x_span, z_span, v_span) = (x1 - x0, z1 - z0, v1 - v0);
+    let x_fmt = move |v: &f64| format_tick(*v, x_span);
+    let z_fmt = move |v: &f64| format_tick(-*v, z_span);
+    let margin = (0.8 * fonts.label) as u32;
+
+    let rest = if p.title.trim().is_empty() {
+        root.clone()
+    } else {
+        let title_h = (1.3 * fonts.title) as u32 + margin;
+        let (top, rest) = root.split_vertically(title_h);
+        let (tw, th) = top.dim_in_pixel();
+        top.draw_text(
+            &p.title,
+            &font(fonts.title).pos(Pos::new(HPos::Center, VPos::Center)),
+            (tw as i32 / 2, (th as i32 + margin as i32) / 2),
+        )
+        .map_err(drawing_error)?;
+        rest
+    };
+
+    // Colour bar column on the right.
+    let bar_ticks = nice_ticks(v0, v1, 6);
+    let widest_bar_tick = bar_ticks
+        .iter()
+        .map(|v| text_width(root, &format_tick(*v, v_span), &tick_font))
+        .max()
+        .unwrap_or(0);
+    let bar_w = (1.2 * fonts.label) as i32;
+    let bar_gap = (1.2 * fonts.label) as i32;
+    let bar_col = bar_gap + bar_w + 6 + widest_bar_tick as i32 + (1.8 * fonts.label) as i32;
+    let (rest_w, _) = rest.dim_in_pixel();
+    let (main, _) = rest.split_horizontally((rest_w as i32 - bar_col).max(1));
+
+    let widest_z_tick = [z0, z1]
+        .iter()
+        .map(|v| text_width(root, &z_fmt(&-v), &tick_font))
+        .max()
+        .unwrap_or(0);
+    let mut chart = ChartBuilder::on(&main)
+        .margin(margin)
+        .set_label_area_size(
+            LabelAreaPosition::Left,
+            (f64::from(widest_z_tick) + 1.5 * fonts.label + 0.6 * fonts.tick + 8.0) as u32,
+        )
+        .set_label_area_size(
+            LabelAreaPosition::Top,
+            (1.2 * fonts.tick + 1.6 * fonts.label + 10.0) as u32,
+        )
+        .build_cartesian_2d(x0..x1, -z1..-z0)
+        .map_err(drawing_error)?;
+    chart
+        .configure_mesh()
+        .disable_mesh()
+        .x_desc(p.x_label.as_str())
+        .y_desc(p.z_label.as_str())
+        .x_labels(8)
+        .y_labels(8)
+        .x_label_formatter(&x_fmt)
+        .y_label_formatter(&z_fmt)
+        .label_style(tick_font.clone())
+        .axis_desc_style(label_font.clone())
+        .axis_style(BLACK)
+        .draw()
+        .map_err(drawing_error)?;
+
+    // Colour raster: a placeholder in SVG (replaced by an embedded PNG), pixels in bitmaps.
+    let area = chart.plotting_area();
+    let (px, py) = area.get_pixel_range();
+    let (rw, rh) = (
+        (px.end - px.start).max(1) as u32,
+        (py.end - py.start).max(1) as u32,
+    );
+    let raster = p.raster(rw, rh);
+    let (root_x, root_y) = root.get_base_pixel();
+    if is_svg {
+        root.draw(&Rectangle::new(
+            [
+                (px.start - root_x, py.start - root_y),
+                (px.end - root_x, py.end - root_y),
+            ],
+            RASTER_PLACEHOLDER.filled(),
+        ))
+        .map_err(drawing_error)?;
+        *p.svg_raster.borrow_mut() = Some(Raster {
+            left: px.start,
+            top: py.start,
+            width: rw,
+            height: rh,
+            rgb: raster,
+        });
+    } else {
+        let image =
+            BitMapElement::with_ref((px.start - root_x, py.start - root_y), (rw, rh), &raster)
+                .ok_or("field raster has the wrong size")?;
+        root.draw(&image).map_err(drawing_error)?;
+    }
+
+    // Isotherms: a white halo under a dark line, then labels on white boxes.
+    let halo = WHITE.mix(0.7).stroke_width(4);
+    let dark = RGBColor(20, 20, 20).stroke_width(2);
+    let to_internal = |pts: &[(f64, f64)]| pts.iter().map(|&(x, z)| (x, -z)).collect::<Vec<_>>();
+    for (_, lines) in &p.isolines {
+        for line in lines {
+            area.draw(&PathElement::new(to_internal(line), halo))
+                .map_err(drawing_error)?;
+            area.draw(&PathElement::new(to_internal(line), dark))
+                .map_err(drawing_error)?;
+        }
+    }
+    let label_style = tick_font.pos(Pos::new(HPos::Center, VPos::Center));
+    let min_len_px = 3.0 * fonts.label;
+    // Labels keep away from each other and from the markers.
+    let mut placed: Vec<(i32, i32)> = p
+        .markers
+        .iter()
+        .map(|(x, z, _)| chart.backend_coord(&(*x, -*z)))
+        .collect();
+    for (level, lines) in &p.isolines {
+        let text = format_tick(*level, v_span);
+        let (tw, th) = root.estimate_text_size(&text, &tick_font).unwrap_or((0, 0));
+        let (hw, hh) = (tw as i32 / 2 + 2, th as i32 / 2 + 1);
+        let inner = (px.start + hw..px.end - hw, py.start + hh..py.end - hh);
+        for line in lines {
+            let pix: Vec<(i32, i32)> = line
+                .iter()
+                .map(|&(x, z)| chart.backend_coord(&(x, -z)))
+                .collect();
+            if let Some(at) = label_point(&pix, min_len_px, &placed, &inner) {
+                placed.push(at);
+                let (cx, cy) = (at.0 - root_x, at.1 - root_y);
+                root.draw(&Rectangle::new(
+                    [(cx - hw, cy - hh), (cx + hw, cy + hh)],
+                    WHITE.mix(0.85).filled(),
+                ))
+                .map_err(drawing_error)?;
+                root.draw_text(&text, &label_style, (cx, cy))
+                    .map_err(drawing_error)?;
+            }
+        }
+    }
+
+    // Markers: black dot with white ring, label to the right on a white box.
+    let marker_r = (0.3 * fonts.label).round().max(3.0) as i32;
+    let marker_font = tick_font.pos(Pos::new(HPos::Left, VPos::Center));
+    for (x, z, label) in &p.markers {
+        if *x < x0 || *x > x1 || *z < z0 || *z > z1 {
+            continue;
+        }
+        let (mx, my) = chart.backend_coord(&(*x, -*z));
+        let (mx, my) = (mx - root_x, my - root_y);
+        root.draw(&Circle::new((mx, my), marker_r + 2, WHITE.filled()))
+            .map_err(drawing_error)?;
+        root.draw(&Circle::new((mx, my), marker_r, BLACK.filled()))
+            .map_err(drawing_error)?;
+        if !label.trim().is_empty() {
+            let (tw, th) = root.estimate_text_size(label, &tick_font).unwrap_or((0, 0));
+            let lx = mx + marker_r + 5;
+            root.draw(&Rectangle::new(
+                [
+                    (lx - 2, my - th as i32 / 2 - 1),
+                    (lx + tw as i32 + 2, my + th as i32 / 2 + 1),
+                ],
+                WHITE.mix(0.85).filled(),
+            ))
+            .map_err(drawing_error)?;
+            root.draw_text(label, &marker_font, (lx, my))
+                .map_err(drawing_error)?;
+        }
+    }
+
+    // Frame.
+    root.draw(&Rectangle::new(
+        [
+            (px.start - root_x, py.start - root_y),
+            (px.end - root_x - 1, py.end - root_y - 1),
+        ],
+        BLACK.stroke_width(1),
+    ))
+    .map_err(drawing_error)?;
+
+    // Colour bar: strips from low (bottom) to high (top), aligned with the plotting area.
+    let bx0 = px.end - root_x + bar_gap;
+    let (by0, by1) = (py.start - root_y, py.end - root_y);
+    let strips = 96;
+    for k in 0..strips {
+        let t0 = f64::from(k) / f64::from(strips);
+        let t1 = f64::from(k + 1) / f64::from(strips);
+        let ya = by1 - (t0 * f64::from(by1 - by0)).round() as i32;
+        let yb = by1 - (t1 * f64::from(by1 - by0)).round() as i32;
+        let (r, g, b) = colour_map(0.5 * (t0 + t1));
+        root.draw(&Rectangle::new(
+            [(bx0, yb), (bx0 + bar_w, ya)],
+            RGBColor(r, g, b).filled(),
+        ))
+        .map_err(drawing_error)?;
+    }
+    root.draw(&Rectangle::new(
+        [(bx0, by0), (bx0 + bar_w, by1)],
+        BLACK.stroke_width(1),
+    ))
+    .map_err(drawing_error)?;
+    let tick_style = tick_font.pos(Pos::new(HPos::Left, VPos::Center));
+    let to_bar_y = |v: f64| by1 - ((v - v0) / v_span * f64::from(by1 - by0)).round() as i32;
+    for v in &bar_ticks {
+        let y = to_bar_y(*v);
+        root.draw(&PathElement::new(
+            vec![(bx0 + bar_w, y), (bx0 + bar_w + 4, y)],
+            BLACK,
+        ))
+        .map_err(drawing_error)?;
+        root.draw_text(&format_tick(*v, v_span), &tick_style, (bx0 + bar_w + 6, y))
+            .map_err(drawing_error)?;
+    }
+    for level in p
+        .isolines
+        .iter()
+        .map(|l| l.0)
+        .filter(|l| *l >= v0 && *l <= v1)
+    {
+        let y = to_bar_y(level);
+        root.draw(&PathElement::new(vec![(bx0, y), (bx0 + bar_w, y)], dark))
+            .map_err(drawing_error)?;
+    }
+    let label_x = bx0 + bar_w + 6 + widest_bar_tick as i32 + (0.9 * fonts.label) as i32;
+    root.draw_text(
+        &p.colour_bar_label,
+        &label_font
+            .transform(FontTransform::Rotate270)
+            .pos(Pos::new(HPos::Center, VPos::Center)),
+        (label_x, (by0 + by1) / 2),
+    )
+    .map_err(drawing_error)?;
+    Ok(())
+}
+
+/// Where to label an isoline drawn through pixel points `pix`: of the points at 5 %, 15 %, ...,
+/// 95 % of its length that lie in `inner`, the one farthest from the labels already `placed`.
+/// None for lines shorter than `min_len` pixels or with no candidate inside.
+fn label_point(
+    pix: &[(i32, i32)],
+    min_len: f64,
+    placed: &[(i32, i32)],
+    inner: &(std::ops::Range<i32>, std::ops::Range<i32>),
+) -> Option<(i32, i32)> {
+    let seg_len = |a: (i32, i32), b: (i32, i32)| f64::from(b.0 - a.0).hypot(f64::from(b.1 - a.1));
+    let total: f64 = pix.windows(2).map(|w| seg_len(w[0], w[1])).sum();
+    if total < min_len {
+        return None;
+    }
+    let point_at = |mut left: f64| {
+        for w in pix.windows(2) {
+            let l = seg_len(w[0], w[1]);
+            if l >= left && l > 0.0 {
+                let t = left / l;
+                return Some((
+                    w[0].0 + (t * f64::from(w[1].0 - w[0].0)).round() as i32,
+                    w[0].1 + (t * f64::from(w[1].1 - w[0].1)).round() as i32,
+                ));
+            }
+            left -= l;
+        }
+        None
+    };
+    let clearance = |q: (i32, i32)| {
+        placed
+            .iter()
+            .map(|&r| seg_len(q, r))
+            .fold(f64::INFINITY, f64::min)
+    };
+    (0..10)
+        .filter_map(|k| point_at((0.05 + 0.1 * f64::from(k)) * total))
+        .filter(|q| inner.0.contains(&q.0) && inner.1.contains(&q.1))
+        .max_by(|a, b| clearance(*a).total_cmp(&clearance(*b)))
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -997,6 +1804,46 @@ mod tests {
         assert_eq!(format_tick(-0.0001, 20.0), "0");
         assert_eq!(format_tick(0.125, 0.5), "0.125");
         assert_eq!(format_tick(0.30000000000000004, 1.0), "0.3");
+    }
+
+    /// Test vectors of RFC 4648, section 10.
+    #[test]
+    fn base64_matches_rfc4648_vectors() {
+        for (input, expected) in [
+            ("", ""),
+            ("f", "Zg=="),
+            ("fo", "Zm8="),
+            ("foo", "Zm9v"),
+            ("foob", "Zm9vYg=="),
+            ("fooba", "Zm9vYmE="),
+            ("foobar", "Zm9vYmFy"),
+        ] {
+            assert_eq!(base64(input.as_bytes()), expected);
+        }
+    }
+
+    #[test]
+    fn nice_ticks_use_one_two_five_steps() {
+        assert_eq!(
+            nice_ticks(0.0, 10.0, 5),
+            vec![0.0, 2.0, 4.0, 6.0, 8.0, 10.0]
+        );
+        assert_eq!(
+            nice_ticks(6.0, 36.0, 6),
+            vec![10.0, 15.0, 20.0, 25.0, 30.0, 35.0]
+        );
+        let t = nice_ticks(-0.3, 0.3, 6);
+        let expected = [-0.3, -0.2, -0.1, 0.0, 0.1, 0.2, 0.3];
+        assert_eq!(t.len(), expected.len(), "{t:?}");
+        assert!(t.iter().zip(expected).all(|(a, b)| (a - b).abs() < 1e-12));
+    }
+
+    #[test]
+    fn automatic_range_pads_five_percent_each_side() {
+        assert_eq!(auto_range([0.0, 10.0, 4.0].into_iter()), (-0.5, 10.5));
+        assert_eq!(auto_range([2.0].into_iter()), (1.8, 2.2));
+        assert_eq!(auto_range([0.0].into_iter()), (-1.0, 1.0));
+        assert_eq!(auto_range(std::iter::empty()), (0.0, 1.0));
     }
 
     #[test]
