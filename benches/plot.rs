@@ -1,6 +1,6 @@
 //! Rendering time of the report plots (run: cargo bench --bench plot).
 use burrow::report::plot::{
-    render_field_plot, render_line_plot, Band, FieldPlot, LinePlot, Series, SeriesStyle,
+    Band, FieldPlot, LinePlot, Series, SeriesStyle, render_field_plot, render_line_plot,
 };
 use std::time::Instant;
 
@@ -11,12 +11,7 @@ fn line_plot() -> LinePlot {
             name: format!("series {k}"),
             points: depths
                 .iter()
-                .map(|&z| {
-                    (
-                        8.0 + 10.0 * (-z / 2.5).exp() * (f64::from(k) - z / 2.5).cos(),
-                        z,
-                    )
-                })
+                .map(|&z| (8.0 + 10.0 * (-z / 2.5).exp() * (f64::from(k) - z / 2.5).cos(), z))
                 .collect(),
             style: [
                 SeriesStyle::Line,

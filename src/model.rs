@@ -2,9 +2,8 @@
 //! J/(m3 K), ...), every reference resolved, no strings to interpret. Studies and the ground
 //! module read only this; nothing here knows YAML or unit spellings.
 
-/// Length of the model year: 365 days (leap days are ignored by every study).
-pub const YEAR_S: f64 = 365.0 * DAY_S;
-pub const DAY_S: f64 = 86_400.0;
+/// Length of the model day and year (365 days; leap days are ignored by every study).
+pub use crate::physics::annual_wave::{DAY_S, YEAR_S};
 
 #[derive(Clone, Debug, PartialEq)]
 pub struct Site {
@@ -122,3 +121,48 @@ pub struct Study {
 
 #[derive(Clone, Debug, PartialEq)]
 pub enum StudyKind {}
+
+/// A pipe in a cross-section (the same in every study kind). `x` across, `depth` down to the
+/// centre; cover = depth − outer radius.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Pipe {
+    pub id: String,
+    pub x_m: f64,
+    pub depth_m: f64,
+    pub outer_diameter_m: f64,
+    /// Wall layers from the inside out.
+    pub layers: Vec<WallLayer>,
+    pub drive: PipeDrive,
+}
+
+#[derive(Clone, Debug, PartialEq)]
+pub struct WallLayer {
+    pub name: String,
+    pub thickness_m: f64,
+    pub conductivity_w_m_k: f64,
+}
+
+/// What sets a pipe's heat exchange with the ground.
+#[derive(Clone, Debug, PartialEq)]
+pub enum PipeDrive {
+    /// Fluid temperature, one per month (twelve equal values when constant).
+    FluidTemperature { monthly_c: [f64; 12] },
+    /// Heat given to the ground per metre of pipe (negative: taken from it).
+    HeatToGround { w_per_m: f64 },
+}
+
+impl Pipe {
+    pub fn outer_radius_m(&self) -> f64 {
+        self.outer_diameter_m / 2.0
+    }
+
+    /// Radius inside the innermost wall layer.
+    pub fn inner_radius_m(&self) -> f64 {
+        self.outer_radius_m() - self.layers.iter().map(|l| l.thickness_m).sum::<f64>()
+    }
+
+    /// Depth of the crown (top of the outer surface) below the ground surface.
+    pub fn cover_m(&self) -> f64 {
+        self.depth_m - self.outer_radius_m()
+    }
+}

@@ -3,7 +3,7 @@
 //! No physics here: the references are the PNG specification (signature, IHDR), XML
 //! well-formedness (parsed with roxmltree), and pixel colours of the rendered image.
 
-use burrow::report::plot::{palette, render_line_plot, Band, LinePlot, Series, SeriesStyle};
+use burrow::report::plot::{Band, LinePlot, Series, SeriesStyle, palette, render_line_plot};
 
 const W: u32 = 640;
 const H: u32 = 420;
@@ -89,10 +89,7 @@ fn svg_texts(svg: &str) -> Vec<String> {
 fn png_has_signature_and_requested_size() {
     let out = render_line_plot(&simple_plot("t"), W, H).unwrap();
     // PNG specification, section 5.2: the eight signature bytes.
-    assert_eq!(
-        &out.png[..8],
-        &[0x89, b'P', b'N', b'G', 0x0D, 0x0A, 0x1A, 0x0A]
-    );
+    assert_eq!(&out.png[..8], &[0x89, b'P', b'N', b'G', 0x0D, 0x0A, 0x1A, 0x0A]);
     // IHDR is the first chunk; width and height are big-endian u32 at bytes 16..24.
     assert_eq!(&out.png[12..16], b"IHDR");
     assert_eq!(u32::from_be_bytes(out.png[16..20].try_into().unwrap()), W);
@@ -191,7 +188,10 @@ fn markup_in_user_text_is_escaped_into_well_formed_svg() {
     for n in doc.descendants().filter(|n| n.is_element()) {
         let tag = n.tag_name().name();
         assert!(
-            ["svg", "text", "rect", "polyline", "polygon", "circle", "line", "path"].contains(&tag),
+            [
+                "svg", "text", "rect", "polyline", "polygon", "circle", "line", "path"
+            ]
+            .contains(&tag),
             "unexpected element <{tag}>"
         );
     }
@@ -202,9 +202,7 @@ fn control_characters_in_text_do_not_break_the_svg() {
     let plot = simple_plot("bell\u{7} nul\u{0} esc\u{1b} tab\t end");
     let out = render_line_plot(&plot, W, H).unwrap();
     let texts = svg_texts(&out.svg);
-    assert!(texts
-        .iter()
-        .any(|t| t.starts_with("bell") && t.ends_with("end")));
+    assert!(texts.iter().any(|t| t.starts_with("bell") && t.ends_with("end")));
 }
 
 #[test]
@@ -218,19 +216,8 @@ fn svg_references_no_external_resource() {
     }];
     let out = render_line_plot(&plot, W, H).unwrap();
     let without_ns = out.svg.replace("http://www.w3.org/2000/svg", "");
-    for forbidden in [
-        "http",
-        "url(",
-        "href",
-        "@font-face",
-        "@import",
-        "<image",
-        "src=",
-    ] {
-        assert!(
-            !without_ns.contains(forbidden),
-            "SVG contains {forbidden:?}"
-        );
+    for forbidden in ["http", "url(", "href", "@font-face", "@import", "<image", "src="] {
+        assert!(!without_ns.contains(forbidden), "SVG contains {forbidden:?}");
     }
 }
 
@@ -243,12 +230,8 @@ fn axis_labels_and_legend_names_appear_as_given() {
         SeriesStyle::Dashed,
         1,
     ));
-    plot.series.push(line(
-        "",
-        vec![(0.0, 0.0), (49.0, 0.1)],
-        SeriesStyle::Dotted,
-        2,
-    ));
+    plot.series
+        .push(line("", vec![(0.0, 0.0), (49.0, 0.1)], SeriesStyle::Dotted, 2));
     let texts = svg_texts(&render_line_plot(&plot, W, H).unwrap().svg);
     for t in ["Profile", "Time (d)", "Temperature (°C)", "inlet", "outlet"] {
         assert!(texts.iter().any(|x| x == t), "{t:?} missing from {texts:?}");
@@ -279,32 +262,18 @@ fn two_depth_markers(y_down: bool) -> LinePlot {
 
 #[test]
 fn depth_axis_grows_downward_when_y_down() {
-    let img = decode_png(
-        &render_line_plot(&two_depth_markers(true), W, H)
-            .unwrap()
-            .png,
-    );
+    let img = decode_png(&render_line_plot(&two_depth_markers(true), W, H).unwrap().png);
     let shallow = marker_row(&img, 0);
     let deep = marker_row(&img, 1);
-    assert!(
-        deep > shallow + 100.0,
-        "deep {deep} not below shallow {shallow}"
-    );
+    assert!(deep > shallow + 100.0, "deep {deep} not below shallow {shallow}");
 }
 
 #[test]
 fn y_axis_grows_upward_by_default() {
-    let img = decode_png(
-        &render_line_plot(&two_depth_markers(false), W, H)
-            .unwrap()
-            .png,
-    );
+    let img = decode_png(&render_line_plot(&two_depth_markers(false), W, H).unwrap().png);
     let low = marker_row(&img, 0);
     let high = marker_row(&img, 1);
-    assert!(
-        high + 100.0 < low,
-        "y=3 at row {high} not above y=1 at row {low}"
-    );
+    assert!(high + 100.0 < low, "y=3 at row {high} not above y=1 at row {low}");
 }
 
 #[test]
@@ -313,10 +282,7 @@ fn depth_tick_labels_are_positive_depths() {
     plot.y_range = Some((0.0, 4.0));
     let texts = svg_texts(&render_line_plot(&plot, W, H).unwrap().svg);
     for t in ["0", "1", "2", "3", "4"] {
-        assert!(
-            texts.iter().any(|x| x == t),
-            "tick {t} missing from {texts:?}"
-        );
+        assert!(texts.iter().any(|x| x == t), "tick {t} missing from {texts:?}");
     }
     assert!(!texts.iter().any(|x| x.starts_with('-')), "{texts:?}");
 }
@@ -347,12 +313,7 @@ fn automatic_range_keeps_extreme_points_and_explicit_range_clips() {
 fn lines_leaving_an_explicit_range_are_clipped_at_the_frame() {
     // A steep line that would otherwise run up through the title area.
     let plot = LinePlot {
-        series: vec![line(
-            "",
-            vec![(0.0, 0.0), (1.0, 10.0)],
-            SeriesStyle::Line,
-            0,
-        )],
+        series: vec![line("", vec![(0.0, 0.0), (1.0, 10.0)], SeriesStyle::Line, 0)],
         x_range: Some((0.0, 1.0)),
         y_range: Some((0.0, 1.0)),
         ..LinePlot::default()
@@ -416,9 +377,7 @@ fn bad_inputs_are_errors_not_panics() {
         upper: vec![(0.0, 1.0)],
         colour: 0,
     }];
-    assert!(render_line_plot(&p, W, H)
-        .unwrap_err()
-        .contains("empty band"));
+    assert!(render_line_plot(&p, W, H).unwrap_err().contains("empty band"));
     assert!(render_line_plot(&simple_plot("t"), 10, H).is_err());
     assert!(render_line_plot(&simple_plot("t"), W, 100_000).is_err());
 }
@@ -446,9 +405,8 @@ fn band_fill_is_drawn_between_its_curves() {
     let img = decode_png(&render_line_plot(&plot, W, H).unwrap().png);
     // The fill is the palette colour blended over white: strictly between the two.
     let (r, g, b) = palette()[5];
-    let fill_like = |p: (u8, u8, u8)| {
-        p != (255, 255, 255) && p.0 >= r && p.1 >= g && p.2 >= b && p.0 < 255 && p.2 > p.0
-    };
+    let fill_like =
+        |p: (u8, u8, u8)| p != (255, 255, 255) && p.0 >= r && p.1 >= g && p.2 >= b && p.0 < 255 && p.2 > p.0;
     let filled: Vec<(u32, u32)> = (0..H)
         .flat_map(|y| (0..W).map(move |x| (x, y)))
         .filter(|&(x, y)| fill_like(img.pixel(x, y)))
@@ -503,9 +461,7 @@ fn dependency_graph_has_no_system_font_library() {
 // Field plot
 // ---------------------------------------------------------------------------------------------
 
-use burrow::report::plot::{
-    chain_segments, colour_map, isoline_segments, render_field_plot, FieldPlot,
-};
+use burrow::report::plot::{FieldPlot, chain_segments, colour_map, isoline_segments, render_field_plot};
 
 /// Rows of "t,r,g,b" from a reference CSV written by tests/reference/viridis_reference.py.
 fn read_colour_csv(name: &str) -> Vec<(f64, (u8, u8, u8))> {
@@ -594,12 +550,7 @@ fn colour_map_lightness_rises_monotonically() {
         .collect();
     for w in l.windows(2) {
         // 0.3 L* allows for rounding to bytes in nearly flat stretches.
-        assert!(
-            w[1] >= w[0] - 0.3,
-            "lightness falls from {} to {}",
-            w[0],
-            w[1]
-        );
+        assert!(w[1] >= w[0] - 0.3, "lightness falls from {} to {}", w[0], w[1]);
     }
     // Between stops 1/15 apart, lightness rises clearly.
     for k in 0..15 {
@@ -695,14 +646,8 @@ fn saddle_cell_is_resolved_by_the_centre_value() {
     assert!(segs.contains(&((0.0, 0.5), (0.5, 1.0))), "{segs:?}");
     // With the high corners lower, the centre is outside and the other pairing appears.
     let v = vec![vec![0.6, 0.0], vec![0.0, 0.6]];
-    let segs: Vec<_> = isoline_segments(&x, &z, &v, 0.5)
-        .into_iter()
-        .map(norm)
-        .collect();
-    assert!(
-        segs.iter().any(|s| s.0 .0 == 0.0 && s.1 .1 == 0.0),
-        "{segs:?}"
-    );
+    let segs: Vec<_> = isoline_segments(&x, &z, &v, 0.5).into_iter().map(norm).collect();
+    assert!(segs.iter().any(|s| s.0.0 == 0.0 && s.1.1 == 0.0), "{segs:?}");
 }
 
 #[test]
@@ -765,15 +710,10 @@ fn base64_decode(s: &str) -> Vec<u8> {
 fn field_plot_svg_embeds_its_raster_and_nothing_external() {
     let out = render_field_plot(&demo_field(), W, H).unwrap();
     let doc = roxmltree::Document::parse(&out.svg).expect("well-formed SVG");
-    let images: Vec<_> = doc
-        .descendants()
-        .filter(|n| n.has_tag_name("image"))
-        .collect();
+    let images: Vec<_> = doc.descendants().filter(|n| n.has_tag_name("image")).collect();
     assert_eq!(images.len(), 1);
     let href = images[0].attribute("href").unwrap();
-    let b64 = href
-        .strip_prefix("data:image/png;base64,")
-        .expect("data URI");
+    let b64 = href.strip_prefix("data:image/png;base64,").expect("data URI");
     let raster = decode_png(&base64_decode(b64));
     assert_eq!(
         (raster.width.to_string(), raster.height.to_string()),
@@ -858,8 +798,7 @@ fn field_plot_with_missing_values_renders() {
 
 #[test]
 fn smallest_and_extreme_aspect_sizes_render() {
-    let mut line_plot =
-        simple_plot("A rather long title that will not fit in a small image at all");
+    let mut line_plot = simple_plot("A rather long title that will not fit in a small image at all");
     line_plot
         .series
         .push(line("one point", vec![(2.0, 2.0)], SeriesStyle::Line, 3));

@@ -11,10 +11,13 @@
 //! mean of the frozen and unfrozen values (so `H` is continuous and piecewise
 //! linear in `T` and can be inverted exactly).
 //!
-//! * Space: cell-centred finite volumes. The surface cell has the requested size;
-//!   cells grow geometrically with depth, `h(z) = h₀·min(1 + z/0.5 m, 16)`, so that
-//!   halving `h₀` halves every cell. Layer interfaces and the reporting depth lie
-//!   on cell faces; face conductances are harmonic means (series resistances).
+//! * Space: cell-centred finite volumes. The surface cell has the requested size
+//!   `h₀`; cells grow geometrically with depth, `h(z) = h₀·min(1 + z/2 m, 16)`
+//!   (1 % per cell for 2 cm cells), so that halving `h₀` halves every cell. The
+//!   slow growth keeps cells small through the seasonal frost zone, where the
+//!   enthalpy method is only about first-order accurate in the cell size. Layer
+//!   interfaces and the reporting depth lie on cell faces; face conductances are
+//!   harmonic means (series resistances).
 //! * Surface: Dirichlet, the prescribed surface temperature. Bottom: a constant
 //!   upward heat flux (the geothermal flux), placed at
 //!   `max(2·depth, depth + 5·d_max)` with `d_max` the largest damping depth of the
@@ -26,20 +29,27 @@
 //!   oscillations at a freezing front; backward Euler is L-stable and monotone.
 //!   Its first-order time error for the annual wave is `≈ A·ωΔt/4` per damping
 //!   depth of travel, about 0.004 K for A = 10 K and 1460 steps per year.
-//! * Freezing: the linearised enthalpy update in the spirit of C. R. Swaminathan &
-//!   V. R. Voller, "A general enthalpy method for modeling solidification
-//!   processes", Metallurgical Transactions B 23B (1992) 651–664: each iteration
-//!   solves `Δz/Δt·[Hᵐ + Cᵐ(T* − Tᵐ) − Hⁿ] = flux balance(T*)` with
-//!   `Cᵐ = dH/dT(Tᵐ)`, then sets `Hᵐ⁺¹ = Hᵐ + Cᵐ(T* − Tᵐ)` and
-//!   `Tᵐ⁺¹ = H⁻¹(Hᵐ⁺¹)`. The stored enthalpy therefore changes by exactly the
-//!   net face fluxes of the solved system in every iteration: energy is conserved
-//!   to round-off whether or not the iteration has fully converged.
+//! * Freezing: the linearised enthalpy update of C. R. Swaminathan & V. R. Voller,
+//!   "A general enthalpy method for modeling solidification processes",
+//!   Metallurgical Transactions B 23B (1992) 651–664 (from memory): each
+//!   iteration solves `Δz/Δt·[Hᵐ + Cᵐ(T* − Tᵐ) − Hⁿ] = flux balance(T*)` with
+//!   `Cᵐ = dH/dT(Tᵐ)` and conductivities at `Tᵐ`, then sets
+//!   `Hᵐ⁺¹ = Hᵐ + Cᵐ(T* − Tᵐ)` and `Tᵐ⁺¹ = H⁻¹(Hᵐ⁺¹)`. The stored enthalpy
+//!   therefore changes by exactly the net face fluxes of the solved system in
+//!   every iteration: energy is conserved to round-off whether or not the
+//!   iteration has fully converged. It stops when no temperature moves by more
+//!   than 1e-6 K, or at once when no cell changed its piece of `H(T)` and none
+//!   sits where `k` depends on `T` (the linearisation was then exact).
 //! * Periodic state: start from the closed-form annual wave of the first layer
-//!   (first harmonic of the surface temperature) on top of the steady geothermal
-//!   profile, then repeat years until consecutive years differ by less than the
-//!   tolerance on every day and in every cell. The slow drift of the deep annual
-//!   mean is removed by a geometric (Aitken-type) extrapolation of the
-//!   year-to-year change once that change has settled into a single decaying mode.
+//!   (first harmonic of the surface temperature, [`AnnualWave`]) on top of the
+//!   steady geothermal profile, then repeat years until consecutive years differ
+//!   by less than the tolerance on every day and in every cell. After each year
+//!   the annual mean below the seasonal freeze–thaw zone is corrected so that every
+//!   face carries the geothermal flux on average (see `Column::correct_deep_mean`),
+//!   which removes the decades-long drift of the deep mean: a 15 m profile
+//!   converges to 1e-4 K in about 5 years for dry soil and 15–20 years with frost.
+//!   Note that the criterion bounds the change between years, not the distance
+//!   to the exact periodic state, which can be a few times larger.
 //!
 //! Time convention: `t = 0` s is 1 January 00:00, the year has 365 days, and day
 //! index `i` of the output is the instant `t = i·86 400 s` (00:00 on day of year
@@ -47,22 +57,23 @@
 
 use crate::physics::annual_wave::{AnnualWave, DAY_S, YEAR_S, damping_depth_m};
 
-/// Default width (K) of the freezing range below 0 °C.
+/// Default width (K) of the freezing range below 0 °C. Common practice, no source: enthalpy
+/// schemes spread the latent heat over 0.5–1 K so that a cell freezes over several steps.
 pub const DEFAULT_FREEZING_INTERVAL_K: f64 = 0.5;
 
 /// Days in the model year; the periodic output has one profile per day.
 pub const DAYS_PER_YEAR: usize = 365;
 
 /// Depth scale (m) of the geometric cell growth `h(z) = h₀·(1 + z/L)`.
-const GROWTH_LENGTH_M: f64 = 0.5;
+const GROWTH_LENGTH_M: f64 = 2.0;
 /// Largest cell as a multiple of the surface cell.
 const MAX_CELL_FACTOR: f64 = 16.0;
-/// Refuse grids larger than this (a typical profile uses about 150 cells).
+/// Refuse grids larger than this (a typical 15 m profile uses about 300 cells).
 const MAX_CELLS: usize = 200_000;
 /// Iteration limit of the freezing (enthalpy) iteration in one time step.
 const MAX_ITERATIONS: usize = 100;
 /// The enthalpy iteration stops when no cell temperature changes by more (K).
-const ITERATION_TOLERANCE_K: f64 = 1e-8;
+const ITERATION_TOLERANCE_K: f64 = 1e-6;
 
 /// One soil layer of the column. Heat capacities are volumetric, J/(m³·K);
 /// conductivities in W/(m·K).
@@ -80,7 +91,7 @@ pub struct ColumnLayer {
     /// Frozen volumetric heat capacity, J/(m³·K).
     pub frozen_heat_capacity: f64,
     /// Latent heat of the pore water per unit soil volume, J/m³
-    /// (volumetric water content × 1000 kg/m³ × 334 kJ/kg); 0 for dry soil.
+    /// (volumetric water content × 1000 kg/m³ × 333.55 kJ/kg, IAPWS); 0 for dry soil.
     pub latent_heat_j_m3: f64,
     /// Water freezes linearly between 0 °C and `−freezing_interval_k`, K
     /// (default [`DEFAULT_FREEZING_INTERVAL_K`]).
@@ -142,7 +153,8 @@ impl ColumnLayer {
                 self.latent_heat_j_m3
             ));
         }
-        if !is_last && !(self.thickness_m.is_finite() && self.thickness_m > 0.0) {
+        let thickness_ok = self.thickness_m.is_finite() && self.thickness_m > 0.0;
+        if !is_last && !thickness_ok {
             return Err(format!(
                 "layer {index}: thickness_m is {}; every layer but the last needs a positive thickness",
                 self.thickness_m
@@ -401,12 +413,12 @@ pub fn periodic_profile(
 
     let initial = initial_temperatures(&grid, layers, &surface_at_step, dt, geothermal_flux_w_m2);
     let mut column = Column::new(&grid, layers, &initial);
-    let mut extrapolator = DriftExtrapolator::default();
     let mut previous_days: Option<Vec<Vec<f64>>> = None;
     let mut last_change = f64::INFINITY;
 
     for year in 1..=opts.max_years {
         let stored_start = column.stored_j_m2();
+        let mut stats = YearStatistics::new(column.t.len());
         let mut days = Vec::with_capacity(DAYS_PER_YEAR);
         days.push(column.t.clone());
         let mut heat_in = 0.0;
@@ -419,6 +431,7 @@ pub fn periodic_profile(
             let flux = column.step(dt, surface_at_step[(n + 1) % steps], geothermal_flux_w_m2)?;
             heat_in += dt * (flux.surface_w_m2 + flux.bottom_w_m2);
             throughput += dt * (flux.surface_w_m2.abs() + flux.bottom_w_m2.abs());
+            stats.add(&column);
             if let Some(before) = before {
                 let mut d = next_day;
                 while d < DAYS_PER_YEAR && d * steps <= (n + 1) * DAYS_PER_YEAR {
@@ -439,9 +452,6 @@ pub fn periodic_profile(
 
         if let Some(previous) = &previous_days {
             last_change = max_abs_difference(previous, &days);
-            if std::env::var("BURROW_DEBUG").is_ok() {
-                eprintln!("year {year} change {last_change:.3e}");
-            }
             if last_change < opts.tolerance_k {
                 return Ok(report(
                     &grid,
@@ -454,27 +464,7 @@ pub fn periodic_profile(
                 ));
             }
         }
-        let (mean_c, linear) = column.annual_statistics(&days);
-        if std::env::var("BURROW_DEBUG").is_ok() {
-            let pick: Vec<String> = [0.5, 1.0, 2.0, 3.0, 5.0, 10.0, 20.0, 29.0]
-                .iter()
-                .map(|&z| {
-                    let i = grid.centres_m.partition_point(|&c| c < z);
-                    format!("{z}:{:.4}{}", mean_c[i], if linear[i] { "L" } else { "N" })
-                })
-                .collect();
-            eprintln!("  means {}", pick.join(" "));
-        }
-        if std::env::var("BURROW_NOEXTRAP").is_ok() {
-            previous_days = Some(days);
-            continue;
-        }
-        if let Some(shift) = extrapolator.after_year(&grid.widths_m, &mean_c, &linear) {
-            if std::env::var("BURROW_DEBUG").is_ok() {
-                eprintln!("year {year} extrapolated");
-            }
-            column.shift_temperatures(&shift);
-        }
+        column.correct_deep_mean(&stats, geothermal_flux_w_m2);
         previous_days = Some(days);
     }
     Err(format!(
@@ -611,6 +601,14 @@ fn report(
     }
 }
 
+/// The three linear pieces of the enthalpy curve H(T).
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+enum Piece {
+    Frozen,
+    Freezing,
+    Unfrozen,
+}
+
 /// Soil properties of one cell as functions of temperature.
 #[derive(Debug, Clone, Copy)]
 struct Material {
@@ -678,14 +676,23 @@ impl Material {
         }
     }
 
-    /// dH/dT at T (the value of the range T lies in; 0 °C counts as freezing).
-    fn capacity(&self, t_c: f64) -> f64 {
+    /// The linear piece of H(T) that T lies in (0 °C counts as freezing).
+    fn piece(&self, t_c: f64) -> Piece {
         if t_c > 0.0 {
-            self.c_unfrozen
+            Piece::Unfrozen
         } else if t_c >= -self.interval {
-            self.c_apparent_mushy()
+            Piece::Freezing
         } else {
-            self.c_frozen
+            Piece::Frozen
+        }
+    }
+
+    /// dH/dT on the piece T lies in, J/(m³·K).
+    fn capacity(&self, t_c: f64) -> f64 {
+        match self.piece(t_c) {
+            Piece::Unfrozen => self.c_unfrozen,
+            Piece::Freezing => self.c_apparent_mushy(),
+            Piece::Frozen => self.c_frozen,
         }
     }
 
@@ -810,14 +817,22 @@ struct StepFlux {
 struct Column {
     widths_m: Vec<f64>,
     cells: Vec<Material>,
-    linear: bool,
+    /// Cells whose material has one linear H(T) and constant k.
+    linear: Vec<bool>,
     h: Vec<f64>,
     t: Vec<f64>,
+    h_old: Vec<f64>,
+    /// Cell width / time step, m/s, for `storage_dt_s`.
+    storage: Vec<f64>,
+    storage_dt_s: f64,
+    /// Conductivity used for `half_resistance` (NaN before the first step).
     k: Vec<f64>,
+    k_changed: Vec<bool>,
     cap: Vec<f64>,
-    lower: Vec<f64>,
+    half_resistance: Vec<f64>,
+    /// Series conductance between cells i and i + 1, W/(m²·K).
+    conductance: Vec<f64>,
     diag: Vec<f64>,
-    upper: Vec<f64>,
     rhs: Vec<f64>,
     solution: Vec<f64>,
     scratch: Vec<f64>,
@@ -834,15 +849,19 @@ impl Column {
         let h = cells.iter().zip(t_c).map(|(m, &t)| m.enthalpy_j_m3(t)).collect();
         Self {
             widths_m: grid.widths_m.clone(),
-            linear: cells.iter().all(Material::is_linear),
+            linear: cells.iter().map(Material::is_linear).collect(),
             cells,
             h,
             t: t_c.to_vec(),
-            k: vec![0.0; n],
+            h_old: vec![0.0; n],
+            storage: vec![0.0; n],
+            storage_dt_s: f64::NAN,
+            k: vec![f64::NAN; n],
+            k_changed: vec![true; n],
             cap: vec![0.0; n],
-            lower: vec![0.0; n],
+            half_resistance: vec![0.0; n],
+            conductance: vec![0.0; n.saturating_sub(1)],
             diag: vec![0.0; n],
-            upper: vec![0.0; n],
             rhs: vec![0.0; n],
             solution: vec![0.0; n],
             scratch: vec![0.0; n],
@@ -854,40 +873,37 @@ impl Column {
         self.widths_m.iter().zip(&self.h).map(|(w, h)| w * h).sum()
     }
 
-    /// Adds `shift_k` to every cell temperature and resets the enthalpy to match.
-    fn shift_temperatures(&mut self, shift_k: &[f64]) {
-        for (((t, h), m), &dt) in self.t.iter_mut().zip(&mut self.h).zip(&self.cells).zip(shift_k) {
-            *t += dt;
-            *h = m.enthalpy_j_m3(*t);
-        }
-    }
-
-    /// Per cell over the daily states of one year: the annual mean temperature and
-    /// whether the cell behaved linearly (never inside or across its freezing range).
-    fn annual_statistics(&self, days: &[Vec<f64>]) -> (Vec<f64>, Vec<bool>) {
+    /// Spin-up acceleration: corrects the annual mean below the seasonally
+    /// freezing and thawing zone so that every face carries the geothermal flux.
+    ///
+    /// Summing the backward-Euler steps over a periodic year, the stored enthalpy
+    /// returns to its start, so the annual-mean upward flux through every internal
+    /// face equals the bottom flux q. During spin-up the deficit `q − F̄` reveals
+    /// the slow drift of the deep mean (time constant ≈ 4L²/(π²α), decades for a
+    /// 30 m column, centuries where deep ground sits in its freezing range).
+    /// Below the deepest cell that moved between frozen, freezing and unfrozen
+    /// during the year (the "anchor"), each cell is shifted by `δ` with
+    /// `δ_anchor = 0`, `δᵢ₊₁ = δᵢ + (q − F̄ᵢ₊½)/Ḡᵢ₊½` (Ḡ: annual-mean face
+    /// conductance), a Newton step on the annual-mean flux balance. In cells that
+    /// stay unfrozen or frozen the problem is linear and a uniform shift is a steady
+    /// solution, so the periodic part is untouched and the step is exact; its fixed
+    /// point is the periodic state itself (`F̄ = q`).
+    fn correct_deep_mean(&mut self, stats: &YearStatistics, geothermal_flux_w_m2: f64) {
         let n = self.cells.len();
-        let mut mean = vec![0.0; n];
-        let mut lo = vec![f64::INFINITY; n];
-        let mut hi = vec![f64::NEG_INFINITY; n];
-        for day in days {
-            for i in 0..n {
-                mean[i] += day[i] / days.len() as f64;
-                lo[i] = lo[i].min(day[i]);
-                hi[i] = hi[i].max(day[i]);
-            }
+        let crossed = |i: usize| {
+            let m = &self.cells[i];
+            !self.linear[i] && m.piece(stats.lo[i]) != m.piece(stats.hi[i])
+        };
+        let anchor = (0..n).rev().find(|&i| crossed(i)).map_or(0, |i| i + 1);
+        let mut shift = 0.0;
+        for i in anchor..n.saturating_sub(1) {
+            let mean_flux = stats.flux_sum[i] / stats.count as f64;
+            let mean_conductance = stats.conductance_sum[i] / stats.count as f64;
+            shift += (geothermal_flux_w_m2 - mean_flux) / mean_conductance;
+            let cell = i + 1;
+            self.t[cell] += shift;
+            self.h[cell] = self.cells[cell].enthalpy_j_m3(self.t[cell]);
         }
-        let linear = (0..n)
-            .map(|i| {
-                let m = &self.cells[i];
-                m.is_linear() || lo[i] > 0.0 || hi[i] < -m.interval
-            })
-            .collect();
-        (mean, linear)
-    }
-
-    /// Series conductance (W/(m²·K)) between cell centres `i` and `i + 1`.
-    fn face_conductance(&self, i: usize) -> f64 {
-        1.0 / (0.5 * self.widths_m[i] / self.k[i] + 0.5 * self.widths_m[i + 1] / self.k[i + 1])
     }
 
     /// Temperature of face `face` (between cells `face − 1` and `face`) for the cell
@@ -917,48 +933,74 @@ impl Column {
     /// `surface_c` and `bottom_flux_w_m2` entering at the bottom.
     fn step(&mut self, dt_s: f64, surface_c: f64, bottom_flux_w_m2: f64) -> Result<StepFlux, String> {
         let n = self.cells.len();
-        let h_old = self.h.clone();
-        for iteration in 0..MAX_ITERATIONS {
-            for i in 0..n {
-                self.k[i] = self.cells[i].conductivity(self.t[i]);
-                self.cap[i] = self.cells[i].capacity(self.t[i]);
+        self.h_old.copy_from_slice(&self.h);
+        if dt_s != self.storage_dt_s {
+            for (storage, w) in self.storage.iter_mut().zip(&self.widths_m) {
+                *storage = w / dt_s;
             }
-            let surface_conductance = self.k[0] / (0.5 * self.widths_m[0]);
+            self.storage_dt_s = dt_s;
+        }
+        for iteration in 0..MAX_ITERATIONS {
+            // Conductances are recomputed only where a cell's k has changed.
+            let mut any_changed = false;
             for i in 0..n {
-                let storage = self.widths_m[i] / dt_s;
+                let m = &self.cells[i];
+                let k = m.conductivity(self.t[i]);
+                self.cap[i] = m.capacity(self.t[i]);
+                self.k_changed[i] = k != self.k[i];
+                if self.k_changed[i] {
+                    any_changed = true;
+                    self.k[i] = k;
+                    self.half_resistance[i] = 0.5 * self.widths_m[i] / k;
+                }
+            }
+            if any_changed {
+                for i in 0..n - 1 {
+                    if self.k_changed[i] || self.k_changed[i + 1] {
+                        self.conductance[i] = 1.0 / (self.half_resistance[i] + self.half_resistance[i + 1]);
+                    }
+                }
+            }
+            let surface_conductance = 1.0 / self.half_resistance[0];
+            for i in 0..n {
+                let storage = self.storage[i];
                 let above = if i == 0 {
                     surface_conductance
                 } else {
-                    self.face_conductance(i - 1)
+                    self.conductance[i - 1]
                 };
-                let below = if i + 1 < n { self.face_conductance(i) } else { 0.0 };
-                self.lower[i] = if i == 0 { 0.0 } else { -above };
-                self.upper[i] = -below;
+                let below = if i + 1 < n { self.conductance[i] } else { 0.0 };
                 self.diag[i] = storage * self.cap[i] + above + below;
-                self.rhs[i] = storage * (self.cap[i] * self.t[i] - self.h[i] + h_old[i]);
+                self.rhs[i] = storage * (self.cap[i] * self.t[i] - self.h[i] + self.h_old[i]);
             }
             self.rhs[0] += surface_conductance * surface_c;
             self.rhs[n - 1] += bottom_flux_w_m2;
-            solve_tridiagonal(
-                &self.lower,
+            solve_symmetric_tridiagonal(
                 &self.diag,
-                &self.upper,
+                &self.conductance,
                 &self.rhs,
                 &mut self.solution,
                 &mut self.scratch,
             );
             let surface_w_m2 = surface_conductance * (surface_c - self.solution[0]);
             let mut change: f64 = 0.0;
+            // The linearisation was exact if no cell left its linear piece of H(T)
+            // and no cell sits where k varies with T (inside the freezing range).
+            let mut exact = true;
             for i in 0..n {
+                let m = &self.cells[i];
                 self.h[i] += self.cap[i] * (self.solution[i] - self.t[i]);
-                let t_new = self.cells[i].temperature_c(self.h[i]);
+                let t_new = m.temperature_c(self.h[i]);
+                let piece = m.piece(self.t[i]);
+                exact &= self.linear[i]
+                    || (piece == m.piece(t_new) && (piece != Piece::Freezing || m.k_frozen == m.k_unfrozen));
                 change = change.max((t_new - self.t[i]).abs());
                 self.t[i] = t_new;
             }
             if !change.is_finite() {
                 return Err("the column temperatures became non-finite; check the layer properties".into());
             }
-            if self.linear || (iteration > 0 && change < ITERATION_TOLERANCE_K) {
+            if exact || (iteration > 0 && change < ITERATION_TOLERANCE_K) {
                 return Ok(StepFlux {
                     surface_w_m2,
                     bottom_w_m2: bottom_flux_w_m2,
@@ -971,92 +1013,60 @@ impl Column {
     }
 }
 
-/// Thomas algorithm for a diagonally dominant tridiagonal system
-/// `lower[i]·x[i−1] + diag[i]·x[i] + upper[i]·x[i+1] = rhs[i]`.
-fn solve_tridiagonal(
-    lower: &[f64],
-    diag: &[f64],
-    upper: &[f64],
-    rhs: &[f64],
-    x: &mut [f64],
-    c_prime: &mut [f64],
-) {
+/// Thomas algorithm for the symmetric tridiagonal system
+/// `−g[i−1]·x[i−1] + diag[i]·x[i] − g[i]·x[i+1] = rhs[i]` (diagonally dominant:
+/// `diag[i] ≥ g[i−1] + g[i]`, so no pivoting is needed).
+fn solve_symmetric_tridiagonal(diag: &[f64], g: &[f64], rhs: &[f64], x: &mut [f64], c_prime: &mut [f64]) {
     let n = diag.len();
-    c_prime[0] = upper[0] / diag[0];
-    x[0] = rhs[0] / diag[0];
+    let mut inverse = 1.0 / diag[0];
+    c_prime[0] = if n > 1 { -g[0] * inverse } else { 0.0 };
+    x[0] = rhs[0] * inverse;
     for i in 1..n {
-        let denominator = diag[i] - lower[i] * c_prime[i - 1];
-        c_prime[i] = upper[i] / denominator;
-        x[i] = (rhs[i] - lower[i] * x[i - 1]) / denominator;
+        inverse = 1.0 / (diag[i] + g[i - 1] * c_prime[i - 1]);
+        c_prime[i] = if i + 1 < n { -g[i] * inverse } else { 0.0 };
+        x[i] = (rhs[i] + g[i - 1] * x[i - 1]) * inverse;
     }
     for i in (0..n - 1).rev() {
         x[i] -= c_prime[i] * x[i + 1];
     }
 }
 
-/// Geometric extrapolation of the drift of the annual-mean temperature.
-///
-/// The slowest part of the spin-up is the deep annual mean settling to its periodic
-/// value (one decaying mode with time constant ≈ 4L²/(π²α) for a column of depth
-/// L). When the year-to-year changes `Δᵧ` of the annual-mean profile are parallel
-/// with a steady ratio `ρ`, the remaining drift is the geometric series
-/// `Δᵧ·ρ/(1 − ρ)` (Aitken's Δ² idea applied to that mode) and is added at once —
-/// only in cells that stayed outside the freezing range all year, where the
-/// problem is linear; the seasonally freezing cells adjust within a year or two.
-#[derive(Debug, Default)]
-struct DriftExtrapolator {
-    previous_mean: Option<Vec<f64>>,
-    previous_change: Option<Vec<f64>>,
-    previous_ratio: Option<f64>,
+/// Per-year statistics over the backward-Euler steps: the range of every cell
+/// temperature and, per internal face, the sums of the upward heat flux and of the
+/// conductance of the solved systems.
+#[derive(Debug, Clone)]
+struct YearStatistics {
+    lo: Vec<f64>,
+    hi: Vec<f64>,
+    flux_sum: Vec<f64>,
+    conductance_sum: Vec<f64>,
+    count: usize,
 }
 
-impl DriftExtrapolator {
-    /// `mean_c`: annual mean per cell of the year just simulated; `linear`: cells
-    /// that never entered the freezing range. Returns the temperature shift per
-    /// cell to apply, if the drift has settled into one mode.
-    fn after_year(&mut self, weights: &[f64], mean_c: &[f64], linear: &[bool]) -> Option<Vec<f64>> {
-        let change: Option<Vec<f64>> = self.previous_mean.as_ref().map(|previous| {
-            mean_c
-                .iter()
-                .zip(previous)
-                .zip(linear)
-                .map(|((m, p), &lin)| if lin { m - p } else { 0.0 })
-                .collect()
-        });
-        self.previous_mean = Some(mean_c.to_vec());
-        let change = change?;
-        let dot =
-            |a: &[f64], b: &[f64]| -> f64 { weights.iter().zip(a).zip(b).map(|((w, x), y)| w * x * y).sum() };
-        let mut shift = None;
-        let mut ratio_now = None;
-        if let Some(previous) = &self.previous_change {
-            let cross = dot(&change, previous);
-            let norm_prev = dot(previous, previous);
-            let norm_now = dot(&change, &change);
-            if norm_prev > 0.0 && norm_now > 0.0 {
-                let ratio = cross / norm_prev;
-                let cosine = cross / (norm_prev * norm_now).sqrt();
-                if cosine > 0.999 && ratio > 0.05 && ratio < 0.98 {
-                    if let Some(r0) = self.previous_ratio {
-                        if (ratio - r0).abs() < 0.02 {
-                            let factor = ratio / (1.0 - ratio);
-                            shift = Some(change.iter().map(|c| factor * c).collect());
-                        }
-                    }
-                    ratio_now = Some(ratio);
-                }
-            }
+impl YearStatistics {
+    fn new(cells: usize) -> Self {
+        let faces = cells.saturating_sub(1);
+        Self {
+            lo: vec![f64::INFINITY; cells],
+            hi: vec![f64::NEG_INFINITY; cells],
+            flux_sum: vec![0.0; faces],
+            conductance_sum: vec![0.0; faces],
+            count: 0,
         }
-        if shift.is_some() {
-            // The shifted state starts a new history.
-            self.previous_mean = None;
-            self.previous_change = None;
-            self.previous_ratio = None;
-        } else {
-            self.previous_change = Some(change);
-            self.previous_ratio = ratio_now;
+    }
+
+    /// Adds the state after one step of `column`.
+    fn add(&mut self, column: &Column) {
+        for (i, &t) in column.t.iter().enumerate() {
+            self.lo[i] = self.lo[i].min(t);
+            self.hi[i] = self.hi[i].max(t);
         }
-        shift
+        for i in 0..self.flux_sum.len() {
+            let g = column.conductance[i];
+            self.flux_sum[i] += g * (column.solution[i + 1] - column.solution[i]);
+            self.conductance_sum[i] += g;
+        }
+        self.count += 1;
     }
 }
 

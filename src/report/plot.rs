@@ -10,7 +10,7 @@ use plotters::coord::Shift;
 use plotters::element::{BitMapElement, DashedPathElement, Polygon};
 use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
-use plotters::style::{register_font, FontStyle};
+use plotters::style::{FontStyle, register_font};
 use std::sync::OnceLock;
 
 /// Family name under which the bundled font is registered. It doubles as the CSS font-family
@@ -136,11 +136,7 @@ pub struct Rendered {
 }
 
 /// Renders `plot` at `width_px` x `height_px` pixels as SVG and PNG.
-pub fn render_line_plot(
-    plot: &LinePlot,
-    width_px: u32,
-    height_px: u32,
-) -> Result<Rendered, String> {
+pub fn render_line_plot(plot: &LinePlot, width_px: u32, height_px: u32) -> Result<Rendered, String> {
     check_size(width_px, height_px)?;
     ensure_font()?;
     let prepared = prepare_line_plot(plot)?;
@@ -165,11 +161,7 @@ fn check_size(width_px: u32, height_px: u32) -> Result<(), String> {
 /// Something that can draw itself on any plotters backend.
 trait Drawing {
     /// `is_svg` tells the drawing which backend it is on (the field raster differs).
-    fn draw_on<DB: DrawingBackend>(
-        &self,
-        root: &DrawingArea<DB, Shift>,
-        is_svg: bool,
-    ) -> Result<(), String>;
+    fn draw_on<DB: DrawingBackend>(&self, root: &DrawingArea<DB, Shift>, is_svg: bool) -> Result<(), String>;
 }
 
 /// Runs the same drawing on an SVG and a bitmap backend and encodes the bitmap as PNG.
@@ -202,9 +194,7 @@ fn encode_png(rgb: &[u8], width_px: u32, height_px: u32) -> Result<Vec<u8>, Stri
     writer
         .write_image_data(rgb)
         .map_err(|e| format!("PNG encoding failed: {e}"))?;
-    writer
-        .finish()
-        .map_err(|e| format!("PNG encoding failed: {e}"))?;
+    writer.finish().map_err(|e| format!("PNG encoding failed: {e}"))?;
     Ok(out)
 }
 
@@ -215,9 +205,7 @@ fn drawing_error<E: std::fmt::Debug>(e: E) -> String {
 /// Replaces control characters (invalid in XML 1.0 even when escaped, and meaningless in a
 /// label) by spaces. Markup characters are escaped by the SVG backend itself.
 fn clean_text(s: &str) -> String {
-    s.chars()
-        .map(|c| if c.is_control() { ' ' } else { c })
-        .collect()
+    s.chars().map(|c| if c.is_control() { ' ' } else { c }).collect()
 }
 
 /// Text sizes in plotters' size unit (pixels of ascent + descent), scaled with the image.
@@ -512,9 +500,7 @@ fn prepare_line_plot(plot: &LinePlot) -> Result<PreparedLinePlot, String> {
     }
     for (v, label) in plot.hlines.iter().chain(&plot.vlines) {
         if !v.is_finite() {
-            return Err(format!(
-                "reference line '{label}' is at {v}; give a finite value"
-            ));
+            return Err(format!("reference line '{label}' is at {v}; give a finite value"));
         }
     }
 
@@ -528,20 +514,12 @@ fn prepare_line_plot(plot: &LinePlot) -> Result<PreparedLinePlot, String> {
     };
     let (x0, x1) = match plot.x_range {
         Some(r) => checked_range(r, "x_range")?,
-        None => auto_range(
-            all_points()
-                .map(|p| p.0)
-                .chain(plot.vlines.iter().map(|l| l.0)),
-        ),
+        None => auto_range(all_points().map(|p| p.0).chain(plot.vlines.iter().map(|l| l.0))),
     };
     let (y0, y1) = match plot.y_range {
         Some(r) => {
             let (lo, hi) = checked_range(r, "y_range")?;
-            if plot.y_down {
-                (-hi, -lo)
-            } else {
-                (lo, hi)
-            }
+            if plot.y_down { (-hi, -lo) } else { (lo, hi) }
         }
         None => auto_range(
             all_points()
@@ -557,10 +535,7 @@ fn prepare_line_plot(plot: &LinePlot) -> Result<PreparedLinePlot, String> {
         .zip(series_runs)
         .map(|(s, runs)| PreparedSeries {
             name: clean_text(&s.name),
-            runs: runs
-                .iter()
-                .flat_map(|r| clip_polyline(r, &bounds))
-                .collect(),
+            runs: runs.iter().flat_map(|r| clip_polyline(r, &bounds)).collect(),
             style: s.style,
             colour: s.colour,
         })
@@ -716,11 +691,8 @@ fn draw_line_plot<DB: DrawingBackend>(
     for band in &p.bands {
         let c = rgb(band.colour);
         if band.polygon.len() >= 3 {
-            area.draw(&Polygon::new(
-                band.polygon.clone(),
-                c.mix(BAND_ALPHA).filled(),
-            ))
-            .map_err(drawing_error)?;
+            area.draw(&Polygon::new(band.polygon.clone(), c.mix(BAND_ALPHA).filled()))
+                .map_err(drawing_error)?;
         }
         for edge in [&band.lower, &band.upper] {
             for piece in clip_polyline(edge, &b) {
@@ -826,14 +798,8 @@ fn draw_line_plot<DB: DrawingBackend>(
 /// Opacity of band fills.
 const BAND_ALPHA: f64 = 0.22;
 
-fn text_width<DB: DrawingBackend>(
-    root: &DrawingArea<DB, Shift>,
-    text: &str,
-    style: &TextStyle,
-) -> u32 {
-    root.estimate_text_size(text, style)
-        .map(|s| s.0)
-        .unwrap_or(0)
+fn text_width<DB: DrawingBackend>(root: &DrawingArea<DB, Shift>, text: &str, style: &TextStyle) -> u32 {
+    root.estimate_text_size(text, style).map(|s| s.0).unwrap_or(0)
 }
 
 /// Draws a polyline of at least two points in the given line style.
@@ -850,12 +816,7 @@ where
 {
     let line = c.stroke_width(strokes.line);
     match style {
-        SeriesStyle::Dashed => area.draw(&DashedPathElement::new(
-            points,
-            strokes.dash,
-            strokes.gap,
-            line,
-        )),
+        SeriesStyle::Dashed => area.draw(&DashedPathElement::new(points, strokes.dash, strokes.gap, line)),
         SeriesStyle::Dotted => area.draw(&DashedPathElement::new(
             points,
             strokes.line as i32,
@@ -883,8 +844,7 @@ where
     match shape % 4 {
         0 => area.draw(&Circle::new(at, size, c.filled())),
         1 => area.draw(
-            &(EmptyElement::at(at)
-                + Rectangle::new([(-size, -size), (size, size)], c.stroke_width(2))),
+            &(EmptyElement::at(at) + Rectangle::new([(-size, -size), (size, size)], c.stroke_width(2))),
         ),
         2 => area.draw(&TriangleMarker::new(at, size + 1, c.filled())),
         _ => area.draw(&Cross::new(at, size, c.stroke_width(2))),
@@ -956,13 +916,7 @@ fn draw_legend<DB: DrawingBackend>(
         match e.key {
             LegendKey::Series(style, colour) => {
                 if style != SeriesStyle::Markers {
-                    draw_styled_line(
-                        pixels,
-                        vec![(kx0, yc), (kx1, yc)],
-                        style,
-                        rgb(colour),
-                        strokes,
-                    )?;
+                    draw_styled_line(pixels, vec![(kx0, yc), (kx1, yc)], style, rgb(colour), strokes)?;
                 }
                 if matches!(style, SeriesStyle::Markers | SeriesStyle::LineMarkers) {
                     draw_marker(pixels, ((kx0 + kx1) / 2, yc), colour, strokes.marker)?;
@@ -1116,11 +1070,7 @@ pub struct FieldPlot {
 
 /// Renders `plot` at `width_px` x `height_px` pixels as SVG and PNG. In the SVG the colour
 /// raster is an embedded PNG (`data:` URI), not a link.
-pub fn render_field_plot(
-    plot: &FieldPlot,
-    width_px: u32,
-    height_px: u32,
-) -> Result<Rendered, String> {
+pub fn render_field_plot(plot: &FieldPlot, width_px: u32, height_px: u32) -> Result<Rendered, String> {
     check_size(width_px, height_px)?;
     ensure_font()?;
     let prepared = prepare_field_plot(plot)?;
@@ -1160,10 +1110,7 @@ pub fn isoline_segments(x: &[f64], z: &[f64], values: &[Vec<f64>], level: f64) -
             ((n2, v2), (n1, v1))
         };
         let t = (level - va) / (vb - va);
-        (
-            x[a.1] + t * (x[b.1] - x[a.1]),
-            z[a.0] + t * (z[b.0] - z[a.0]),
-        )
+        (x[a.1] + t * (x[b.1] - x[a.1]), z[a.0] + t * (z[b.0] - z[a.0]))
     };
     for iz in 0..z.len() - 1 {
         for ix in 0..x.len() - 1 {
@@ -1264,11 +1211,7 @@ fn base64(bytes: &[u8]) -> String {
     const ABC: &[u8; 64] = b"ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz0123456789+/";
     let mut out = String::with_capacity(bytes.len().div_ceil(3) * 4);
     for chunk in bytes.chunks(3) {
-        let b = [
-            chunk[0],
-            *chunk.get(1).unwrap_or(&0),
-            *chunk.get(2).unwrap_or(&0),
-        ];
+        let b = [chunk[0], *chunk.get(1).unwrap_or(&0), *chunk.get(2).unwrap_or(&0)];
         let n = (u32::from(b[0]) << 16) | (u32::from(b[1]) << 8) | u32::from(b[2]);
         for k in 0..4 {
             if k <= chunk.len() {
@@ -1302,9 +1245,7 @@ fn embed_raster(svg: &str, raster: &Raster) -> Result<String, String> {
     if svg[at + needle.len()..].contains(needle) {
         return Err("field raster placeholder found twice in SVG".into());
     }
-    let start = svg[..at]
-        .rfind("<rect")
-        .ok_or("malformed raster placeholder")?;
+    let start = svg[..at].rfind("<rect").ok_or("malformed raster placeholder")?;
     let end = at + svg[at..].find("/>").ok_or("malformed raster placeholder")? + 2;
     let png_bytes = encode_png(&raster.rgb, raster.width, raster.height)?;
     let image = format!(
@@ -1346,20 +1287,14 @@ fn prepare_field_plot(plot: &FieldPlot) -> Result<PreparedFieldPlot, String> {
     if !strictly_increasing_finite(&plot.z_m) {
         return Err("z_m must hold at least two finite, strictly increasing depths".into());
     }
-    if plot.values.len() != plot.z_m.len() || plot.values.iter().any(|r| r.len() != plot.x_m.len())
-    {
+    if plot.values.len() != plot.z_m.len() || plot.values.iter().any(|r| r.len() != plot.x_m.len()) {
         return Err(format!(
             "values must have {} rows (one per z_m) of {} values (one per x_m)",
             plot.z_m.len(),
             plot.x_m.len()
         ));
     }
-    let finite = plot
-        .values
-        .iter()
-        .flatten()
-        .copied()
-        .filter(|v| v.is_finite());
+    let finite = plot.values.iter().flatten().copied().filter(|v| v.is_finite());
     let (lo, hi) = finite.fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), v| {
         (lo.min(v), hi.max(v))
     });
@@ -1372,15 +1307,9 @@ fn prepare_field_plot(plot: &FieldPlot) -> Result<PreparedFieldPlot, String> {
         None => (lo - 0.5, hi + 0.5),
     };
     if let Some(v) = plot.isotherms.iter().find(|v| !v.is_finite()) {
-        return Err(format!(
-            "isotherm value {v} is not finite; give finite values"
-        ));
+        return Err(format!("isotherm value {v} is not finite; give finite values"));
     }
-    if let Some(m) = plot
-        .markers
-        .iter()
-        .find(|m| !m.0.is_finite() || !m.1.is_finite())
-    {
+    if let Some(m) = plot.markers.iter().find(|m| !m.0.is_finite() || !m.1.is_finite()) {
         return Err(format!(
             "marker '{}' is at ({}, {}); give finite coordinates",
             m.2, m.0, m.1
@@ -1435,11 +1364,7 @@ impl PreparedFieldPlot {
     fn colour_of(&self, value: f64) -> (u8, u8, u8) {
         const N: usize = 1024;
         static TABLE: OnceLock<Vec<(u8, u8, u8)>> = OnceLock::new();
-        let table = TABLE.get_or_init(|| {
-            (0..N)
-                .map(|k| colour_map(k as f64 / (N - 1) as f64))
-                .collect()
-        });
+        let table = TABLE.get_or_init(|| (0..N).map(|k| colour_map(k as f64 / (N - 1) as f64)).collect());
         let (lo, hi) = self.value_range;
         let t = (value - lo) / (hi - lo);
         if t.is_finite() {
@@ -1495,11 +1420,7 @@ fn nice_ticks(lo: f64, hi: f64, target: usize) -> Vec<f64> {
 }
 
 impl Drawing for PreparedFieldPlot {
-    fn draw_on<DB: DrawingBackend>(
-        &self,
-        root: &DrawingArea<DB, Shift>,
-        is_svg: bool,
-    ) -> Result<(), String> {
+    fn draw_on<DB: DrawingBackend>(&self, root: &DrawingArea<DB, Shift>, is_svg: bool) -> Result<(), String> {
         draw_field_plot(root, self, is_svg)
     }
 }
@@ -1609,9 +1530,8 @@ fn draw_field_plot<DB: DrawingBackend>(
             rgb: raster,
         });
     } else {
-        let image =
-            BitMapElement::with_ref((px.start - root_x, py.start - root_y), (rw, rh), &raster)
-                .ok_or("field raster has the wrong size")?;
+        let image = BitMapElement::with_ref((px.start - root_x, py.start - root_y), (rw, rh), &raster)
+            .ok_or("field raster has the wrong size")?;
         root.draw(&image).map_err(drawing_error)?;
     }
 
@@ -1641,10 +1561,7 @@ fn draw_field_plot<DB: DrawingBackend>(
         let (hw, hh) = (tw as i32 / 2 + 2, th as i32 / 2 + 1);
         let inner = (px.start + hw..px.end - hw, py.start + hh..py.end - hh);
         for line in lines {
-            let pix: Vec<(i32, i32)> = line
-                .iter()
-                .map(|&(x, z)| chart.backend_coord(&(x, -z)))
-                .collect();
+            let pix: Vec<(i32, i32)> = line.iter().map(|&(x, z)| chart.backend_coord(&(x, -z))).collect();
             if let Some(at) = label_point(&pix, min_len_px, &placed, &inner) {
                 placed.push(at);
                 let (cx, cy) = (at.0 - root_x, at.1 - root_y);
@@ -1731,12 +1648,7 @@ fn draw_field_plot<DB: DrawingBackend>(
         root.draw_text(&format_tick(*v, v_span), &tick_style, (bx0 + bar_w + 6, y))
             .map_err(drawing_error)?;
     }
-    for level in p
-        .isolines
-        .iter()
-        .map(|l| l.0)
-        .filter(|l| *l >= v0 && *l <= v1)
-    {
+    for level in p.isolines.iter().map(|l| l.0).filter(|l| *l >= v0 && *l <= v1) {
         let y = to_bar_y(level);
         root.draw(&PathElement::new(vec![(bx0, y), (bx0 + bar_w, y)], dark))
             .map_err(drawing_error)?;
@@ -1824,14 +1736,8 @@ mod tests {
 
     #[test]
     fn nice_ticks_use_one_two_five_steps() {
-        assert_eq!(
-            nice_ticks(0.0, 10.0, 5),
-            vec![0.0, 2.0, 4.0, 6.0, 8.0, 10.0]
-        );
-        assert_eq!(
-            nice_ticks(6.0, 36.0, 6),
-            vec![10.0, 15.0, 20.0, 25.0, 30.0, 35.0]
-        );
+        assert_eq!(nice_ticks(0.0, 10.0, 5), vec![0.0, 2.0, 4.0, 6.0, 8.0, 10.0]);
+        assert_eq!(nice_ticks(6.0, 36.0, 6), vec![10.0, 15.0, 20.0, 25.0, 30.0, 35.0]);
         let t = nice_ticks(-0.3, 0.3, 6);
         let expected = [-0.3, -0.2, -0.1, 0.0, 0.1, 0.2, 0.3];
         assert_eq!(t.len(), expected.len(), "{t:?}");

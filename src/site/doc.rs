@@ -147,3 +147,55 @@ pub struct StudyDoc {
     #[serde(flatten)]
     pub rest: BTreeMap<String, serde_json::Value>,
 }
+
+/// A pipe in a cross-section, described the same way in every study kind.
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct PipeDoc {
+    /// A name unique within the study.
+    pub id: String,
+    /// Horizontal position of the centre; 0 is the middle of the study's cross-section.
+    #[serde(default)]
+    pub x: Option<Q<Length>>,
+    /// Depth of the pipe's CENTRE below the ground surface.
+    pub depth: Q<Length>,
+    /// Outermost diameter (over the casing or jacket).
+    pub outer_diameter: Q<Length>,
+    /// Wall layers from the inside out (carrier, insulation, casing); may be empty.
+    #[serde(default)]
+    pub layers: Vec<WallLayerDoc>,
+    /// What flows inside: a temperature (one value or 12 monthly values).
+    #[serde(default)]
+    pub fluid: Option<PipeFluidDoc>,
+    /// Instead of `fluid`: heat given to the ground per metre of pipe (negative = taken from it).
+    #[serde(default)]
+    pub heat_to_ground: Option<Q<LinearHeatRate>>,
+}
+
+/// One cylindrical wall layer.
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct WallLayerDoc {
+    /// A name, e.g. steel, insulation, casing.
+    pub name: String,
+    /// Radial thickness of the layer.
+    pub thickness: Q<Length>,
+    /// Thermal conductivity of the layer material.
+    pub conductivity: Q<Conductivity>,
+}
+
+/// The fluid in a pipe.
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct PipeFluidDoc {
+    /// Fluid temperature: one value, or a list of 12 monthly values (January first).
+    pub temperature: OneOrMonthly,
+}
+
+/// One value for the whole year, or twelve monthly values.
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(untagged)]
+pub enum OneOrMonthly {
+    One(Q<Temperature>),
+    Monthly(#[schemars(length(min = 12, max = 12))] Vec<Q<Temperature>>),
+}

@@ -10,9 +10,8 @@ use crate::model::*;
 use std::collections::HashMap;
 use std::path::Path;
 
-/// Default interval below 0 °C over which soil water freezes. Common practice, no source: enthalpy
-/// schemes smear the latent heat over 0.5–1 K so that a grid cell freezes over several steps.
-pub const DEFAULT_FREEZING_INTERVAL_K: f64 = 0.5;
+/// Default interval below 0 °C over which soil water freezes (see the engine for its reason).
+pub use crate::engine::column::DEFAULT_FREEZING_INTERVAL_K;
 
 /// Study kinds this version can run.
 pub const SUPPORTED_KINDS: &[&str] = &[];
@@ -496,4 +495,271 @@ fn studies(docs: &[StudyDoc], path: &KeyPath, v: &mut Validator) -> Option<Vec<S
         }
     }
     ok.then(Vec::new)
+}
+
+/// Validates the pipes of a study's cross-section: sizes, wall layers, what drives each pipe, and
+/// the geometry (no pipe above the surface, no two pipes overlapping).
+pub fn pipes(docs: &[PipeDoc], path: &KeyPath, v: &mut Validator) -> Option<Vec<Pipe>> {
+    let checked: Vec<Option<Pipe>> = docs
+        .iter()
+        .enumerate()
+        .map(|(i, d)| pipe(d, &path.index(i), v))
+        .collect();
+    let mut ok = checked.iter().all(Option::is_some);
+    let pipes: Vec<Pipe> = checked.into_iter().flatten().collect();
+    let mut seen: HashMap<&str, usize> = HashMap::new();
+    for (i, d) in docs.iter().enumerate() {
+        if let Some(first) = seen.insert(d.id.as_str(), i) {
+            v.out.error(
+                &path.index(i).key("id"),
+                format!(
+                    "the pipe id `{}` is already used by pipe {first} of this study; ids must be unique",
+                    d.id
+                ),
+            );
+            ok = false;
+        }
+    }
+    if ok {
+        for (i, b) in pipes.iter().enumerate() {
+            for a in &pipes[..i] {
+                let gap = ((a.x_m - b.x_m).powi(2) + (a.depth_m - b.depth_m).powi(2)).sqrt();
+                let touch = a.outer_radius_m() + b.outer_radius_m();
+                if gap < touch {
+                    v.out.error(
+                        &path.index(i),
+                        format!(
+                            "pipe `{}` overlaps pipe `{}`: their centres are {} m apart but their outer radii add up to {} m; move them apart",
+                            b.id,
+                            a.id,
+                            round_sig(gap),
+                            round_sig(touch)
+                        ),
+                    );
+                    ok = false;
+                }
+            }
+        }
+    }
+    ok.then_some(pipes)
+}
+
+fn pipe(doc: &PipeDoc, path: &KeyPath, v: &mut Validator) -> Option<Pipe> {
+    let x = match &doc.x {
+        Some(q) => v.q(q, &path.key("x")),
+        None => Some(0.0),
+    };
+    let depth = v.positive_q(&doc.depth, &path.key("depth"), "the depth of the pipe centre");
+    let diameter = v.positive_q(
+        &doc.outer_diameter,
+        &path.key("outer_diameter"),
+        "the outer diameter",
+    );
+    // Buried pipes sit within about 0.3–6 m of the surface and measure up to about 2 m across
+    // (common practice, no source).
+    v.plausible(depth, (0.2, 10.0), &path.key("depth"), "a pipe depth", "m");
+    v.plausible(
+        diameter,
+        (0.01, 2.0),
+        &path.key("outer_diameter"),
+        "a pipe diameter",
+        "m",
+    );
+    if let (Some(z), Some(d)) = (depth, diameter)
+        && z - d / 2.0 <= 0.0
+    {
+        v.out.error(
+            &path.key("depth"),
+            format!(
+                "the top of the pipe is {} m above the ground surface: the depth is measured to the pipe centre and must exceed half the outer diameter ({} m)",
+                round_sig(d / 2.0 - z),
+                round_sig(d / 2.0)
+            ),
+        );
+    }
+    let layers: Vec<Option<WallLayer>> = doc
+        .layers
+        .iter()
+        .enumerate()
+        .map(|(i, l)| {
+            let p = path.key("layers").index(i);
+            let t = v.positive_q(&l.thickness, &p.key("thickness"), "a wall-layer thickness");
+            let k = v.positive_q(
+                &l.conductivity,
+                &p.key("conductivity"),
+                "a wall-layer conductivity",
+            );
+            Some(WallLayer {
+                name: l.name.clone(),
+                thickness_m: t?,
+                conductivity_w_m_k: k?,
+            })
+        })
+        .collect();
+    let layers: Option<Vec<WallLayer>> = layers.into_iter().collect();
+    if let (Some(layers), Some(d)) = (&layers, diameter) {
+        let total: f64 = layers.iter().map(|l| l.thickness_m).sum();
+        if total >= d / 2.0 {
+            v.out.error(
+                &path.key("layers"),
+                format!(
+                    "the wall layers add up to {} m, but the outer radius is only {} m; the layers must leave a bore",
+                    round_sig(total),
+                    round_sig(d / 2.0)
+                ),
+            );
+        }
+    }
+    let drive = match (&doc.fluid, &doc.heat_to_ground) {
+        (Some(f), None) => fluid_temperature(&f.temperature, &path.key("fluid").key("temperature"), v),
+        (None, Some(q)) => v
+            .q(q, &path.key("heat_to_ground"))
+            .map(|w| PipeDrive::HeatToGround { w_per_m: w }),
+        (Some(_), Some(_)) => {
+            v.out.error(
+                path,
+                "give either `fluid` or `heat_to_ground` for a pipe, not both",
+            );
+            None
+        }
+        (None, None) => {
+            v.out.error(
+                path,
+                "the pipe needs `fluid: {temperature: ...}` or `heat_to_ground` to say what drives it",
+            );
+            None
+        }
+    };
+    if v.out.has_errors() {
+        return None;
+    }
+    Some(Pipe {
+        id: doc.id.clone(),
+        x_m: x?,
+        depth_m: depth?,
+        outer_diameter_m: diameter?,
+        layers: layers?,
+        drive: drive?,
+    })
+}
+
+fn fluid_temperature(t: &OneOrMonthly, path: &KeyPath, v: &mut Validator) -> Option<PipeDrive> {
+    let values: Vec<Option<f64>> = match t {
+        OneOrMonthly::One(q) => vec![v.q(q, path); 12],
+        OneOrMonthly::Monthly(list) => {
+            if list.len() != 12 {
+                v.out.error(
+                    path,
+                    format!(
+                        "expected one temperature or exactly 12 monthly values, but the list has {}",
+                        list.len()
+                    ),
+                );
+                return None;
+            }
+            list.iter()
+                .enumerate()
+                .map(|(i, q)| v.q(q, &path.index(i)))
+                .collect()
+        }
+    };
+    let mut monthly_c = [0.0; 12];
+    for (m, value) in values.into_iter().enumerate() {
+        let t = value?;
+        if !(-50.0..=200.0).contains(&t) {
+            v.plausible(Some(t), (-50.0, 200.0), path, "a fluid temperature", "°C");
+        }
+        monthly_c[m] = t;
+    }
+    Some(PipeDrive::FluidTemperature { monthly_c })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::site::{diagnostic::Collector, schema, yaml};
+
+    /// Validates a YAML list of pipes as a study would; returns the pipes or the messages.
+    fn check_pipes(text: &str) -> Result<Vec<Pipe>, Vec<String>> {
+        let tree = yaml::parse(text).unwrap();
+        let docs: Vec<PipeDoc> = serde_json::from_value(schema::to_json(&tree)).unwrap();
+        let mut out = Collector::new("t.yaml", &tree);
+        let mut v = Validator {
+            out: &mut out,
+            base_dir: Path::new("."),
+        };
+        let pipes = pipes(&docs, &KeyPath::root().key("pipes"), &mut v);
+        match pipes {
+            Some(p) if !out.has_errors() => Ok(p),
+            _ => Err(out.items.iter().map(ToString::to_string).collect()),
+        }
+    }
+
+    const PAIR: &str = "
+- {id: supply, x: -0.2 m, depth: 0.95 m, outer_diameter: 225 mm, fluid: {temperature: 80 °C},
+   layers: [{name: steel, thickness: 3.6 mm, conductivity: 50}, {name: pur, thickness: 50 mm, conductivity: 0.026}]}
+- {id: return, x: 0.2 m, depth: 0.95 m, outer_diameter: 225 mm, fluid: {temperature: [50, 50, 50, 50, 45, 45, 45, 45, 45, 50, 50, 50]}}
+";
+
+    #[test]
+    fn a_sound_pipe_pair_is_accepted_in_si_units() {
+        let p = check_pipes(PAIR).unwrap();
+        assert_eq!(p.len(), 2);
+        assert!((p[0].outer_radius_m() - 0.1125).abs() < 1e-12);
+        assert!((p[0].inner_radius_m() - (0.1125 - 0.0036 - 0.050)).abs() < 1e-12);
+        assert!((p[0].cover_m() - (0.95 - 0.1125)).abs() < 1e-12);
+        assert_eq!(
+            p[1].drive,
+            PipeDrive::FluidTemperature {
+                monthly_c: [
+                    50.0, 50.0, 50.0, 50.0, 45.0, 45.0, 45.0, 45.0, 45.0, 50.0, 50.0, 50.0
+                ]
+            }
+        );
+    }
+
+    #[test]
+    fn a_pipe_whose_top_is_above_the_surface_is_refused() {
+        let e =
+            check_pipes("- {id: a, depth: 0.1 m, outer_diameter: 250 mm, heat_to_ground: 20}").unwrap_err();
+        assert!(
+            e.iter().any(
+                |m| m.contains("error: pipes[0].depth") && m.contains("0.025 m above the ground surface")
+            ),
+            "{e:?}"
+        );
+    }
+
+    #[test]
+    fn overlapping_pipes_are_refused() {
+        let text = PAIR.replace("x: 0.2 m", "x: 0.0 m");
+        let e = check_pipes(&text).unwrap_err();
+        assert!(
+            e.iter()
+                .any(|m| m.contains("pipes[1]") && m.contains("overlaps pipe `supply`")),
+            "{e:?}"
+        );
+    }
+
+    #[test]
+    fn wall_layers_thicker_than_the_radius_are_refused() {
+        let text = "- {id: a, depth: 1 m, outer_diameter: 100 mm, heat_to_ground: 5, layers: [{name: w, thickness: 60 mm, conductivity: 0.4}]}";
+        let e = check_pipes(text).unwrap_err();
+        assert!(
+            e[0].contains("pipes[0].layers") && e[0].contains("leave a bore"),
+            "{e:?}"
+        );
+    }
+
+    #[test]
+    fn a_pipe_needs_exactly_one_drive_and_a_unique_id() {
+        let e = check_pipes("- {id: a, depth: 1 m, outer_diameter: 0.1}\n- {id: a, x: 1, depth: 1 m, outer_diameter: 0.1, heat_to_ground: 3, fluid: {temperature: 5}}").unwrap_err();
+        assert!(e.iter().any(|m| m.contains("pipes[0]: the pipe needs")), "{e:?}");
+        assert!(e.iter().any(|m| m.contains("pipes[1]: give either")), "{e:?}");
+        assert!(
+            e.iter()
+                .any(|m| m.contains("pipes[1].id: the pipe id `a` is already used")),
+            "{e:?}"
+        );
+    }
 }
