@@ -641,20 +641,7 @@ fn draw_line_plot<DB: DrawingBackend>(
     let x_area = 1.2 * fonts.tick + 1.6 * fonts.label + 10.0;
     let margin = (0.8 * fonts.label) as u32;
 
-    let chart_area = if p.title.trim().is_empty() {
-        root.clone()
-    } else {
-        let title_h = (1.3 * fonts.title) as u32 + margin;
-        let (top, rest) = root.split_vertically(title_h);
-        let (tw, th) = top.dim_in_pixel();
-        top.draw_text(
-            &p.title,
-            &font(fonts.title).pos(Pos::new(HPos::Center, VPos::Center)),
-            (tw as i32 / 2, (th as i32 + margin as i32) / 2),
-        )
-        .map_err(drawing_error)?;
-        rest
-    };
+    let chart_area = draw_title(root, &p.title, fonts.title, margin)?;
     let mut builder = ChartBuilder::on(&chart_area);
     builder
         .margin(margin)
@@ -797,6 +784,29 @@ fn draw_line_plot<DB: DrawingBackend>(
 
 /// Opacity of band fills.
 const BAND_ALPHA: f64 = 0.22;
+
+/// Draws the title centred in a band at the top; returns the area below it (all of `root` when
+/// the title is empty).
+fn draw_title<DB: DrawingBackend>(
+    root: &DrawingArea<DB, Shift>,
+    title: &str,
+    size: f64,
+    margin: u32,
+) -> Result<DrawingArea<DB, Shift>, String> {
+    if title.trim().is_empty() {
+        return Ok(root.clone());
+    }
+    let title_h = (1.3 * size) as u32 + margin;
+    let (top, rest) = root.split_vertically(title_h);
+    let (tw, th) = top.dim_in_pixel();
+    top.draw_text(
+        title,
+        &font(size).pos(Pos::new(HPos::Center, VPos::Center)),
+        (tw as i32 / 2, (th as i32 + margin as i32) / 2),
+    )
+    .map_err(drawing_error)?;
+    Ok(rest)
+}
 
 fn text_width<DB: DrawingBackend>(root: &DrawingArea<DB, Shift>, text: &str, style: &TextStyle) -> u32 {
     root.estimate_text_size(text, style).map(|s| s.0).unwrap_or(0)
@@ -1444,20 +1454,7 @@ fn draw_field_plot<DB: DrawingBackend>(
     let z_fmt = move |v: &f64| format_tick(-*v, z_span);
     let margin = (0.8 * fonts.label) as u32;
 
-    let rest = if p.title.trim().is_empty() {
-        root.clone()
-    } else {
-        let title_h = (1.3 * fonts.title) as u32 + margin;
-        let (top, rest) = root.split_vertically(title_h);
-        let (tw, th) = top.dim_in_pixel();
-        top.draw_text(
-            &p.title,
-            &font(fonts.title).pos(Pos::new(HPos::Center, VPos::Center)),
-            (tw as i32 / 2, (th as i32 + margin as i32) / 2),
-        )
-        .map_err(drawing_error)?;
-        rest
-    };
+    let rest = draw_title(root, &p.title, fonts.title, margin)?;
 
     // Colour bar column on the right.
     let bar_ticks = nice_ticks(v0, v1, 6);
