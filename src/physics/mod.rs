@@ -2,3 +2,4 @@
 //! the site model, YAML, files or plotting.
 
 pub mod annual_wave;
+pub mod buried_pipe;
