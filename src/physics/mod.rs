@@ -3,3 +3,4 @@
 
 pub mod annual_wave;
 pub mod buried_pipe;
+pub mod frost;
