@@ -112,15 +112,93 @@ impl Ground {
     }
 }
 
-/// A study to run. Each kind's model arrives with its study module.
+/// A study to run.
 #[derive(Clone, Debug, PartialEq)]
 pub struct Study {
     pub id: String,
+    pub method: Method,
     pub kind: StudyKind,
 }
 
+/// Which solution a study uses where its kind offers more than one.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Method {
+    Analytic,
+    Numerical,
+    Both,
+}
+
+impl Method {
+    pub fn name(self) -> &'static str {
+        match self {
+            Method::Analytic => "analytic",
+            Method::Numerical => "numerical",
+            Method::Both => "both",
+        }
+    }
+}
+
 #[derive(Clone, Debug, PartialEq)]
-pub enum StudyKind {}
+pub enum StudyKind {
+    CrossSection(CrossSection),
+}
+
+impl StudyKind {
+    /// The kind's name as the site file spells it.
+    pub fn name(&self) -> &'static str {
+        match self {
+            StudyKind::CrossSection(_) => "cross-section",
+        }
+    }
+}
+
+/// A free 2-D cross-section of the ground with pipes, probes and inclusions, solved by the
+/// finite-volume engine. x across (0 at the centre), depth down from the surface.
+#[derive(Clone, Debug, PartialEq)]
+pub struct CrossSection {
+    pub width_m: f64,
+    pub depth_m: f64,
+    pub cell_min_m: f64,
+    pub cell_max_m: f64,
+    pub time: SectionTime,
+    pub pipes: Vec<Pipe>,
+    pub probes: Vec<Probe>,
+    pub inclusions: Vec<Inclusion>,
+    /// Times of the field plots, s from the start.
+    pub snapshots_s: Vec<f64>,
+    /// Between the surface temperature and the ground; 0 = the surface temperature is imposed.
+    pub surface_resistance_m2_k_w: f64,
+}
+
+/// Transient over a duration at a fixed step, or the steady state (annual-mean surface and fluid
+/// temperatures).
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub enum SectionTime {
+    Steady,
+    Transient { duration_s: f64, step_s: f64 },
+}
+
+/// A point whose temperature is recorded.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Probe {
+    pub id: String,
+    pub x_m: f64,
+    pub depth_m: f64,
+}
+
+/// An axis-aligned rectangle of another material (an insulation board, a duct bank).
+#[derive(Clone, Debug, PartialEq)]
+pub struct Inclusion {
+    pub id: String,
+    /// Horizontal centre.
+    pub x_m: f64,
+    /// Depth of the top edge.
+    pub depth_m: f64,
+    pub width_m: f64,
+    pub height_m: f64,
+    pub conductivity_w_m_k: f64,
+    pub heat_capacity_j_m3_k: f64,
+}
 
 /// A pipe in a cross-section (the same in every study kind). `x` across, `depth` down to the
 /// centre; cover = depth − outer radius.

@@ -7,7 +7,6 @@
 use super::quantity::*;
 use schemars::JsonSchema;
 use serde::Deserialize;
-use std::collections::BTreeMap;
 
 /// A burrow site file: where the site is, what drives its ground surface, its soil, and the
 /// studies to run.
@@ -136,16 +135,21 @@ pub struct LayerDoc {
     pub freezing_interval: Option<Q<TemperatureDifference>>,
 }
 
-/// One study. Each kind has its own keys; `id` and `kind` are common to all.
+/// One study; `kind` says which, and each kind has its own keys.
 #[derive(Debug, Deserialize, JsonSchema)]
-pub struct StudyDoc {
-    /// A unique name for the study, used in the report and in file names.
-    pub id: String,
-    /// What the study computes: heat-loss, borefield, frost or cross-section.
-    pub kind: String,
-    /// The study's own keys.
-    #[serde(flatten)]
-    pub rest: BTreeMap<String, serde_json::Value>,
+#[serde(tag = "kind", rename_all = "kebab-case")]
+#[schemars(extend("x-planned-kinds" = ["heat-loss", "borefield", "frost"]))]
+pub enum StudyDoc {
+    /// A free 2-D cross-section of the ground solved by the finite-volume engine.
+    CrossSection(super::kinds::cross_section::CrossSectionDoc),
+}
+
+impl StudyDoc {
+    pub fn id(&self) -> &str {
+        match self {
+            StudyDoc::CrossSection(d) => &d.id,
+        }
+    }
 }
 
 /// A pipe in a cross-section, described the same way in every study kind.

@@ -95,7 +95,7 @@ impl<'s> Checker<'s> {
             .or_else(|| schema.get("anyOf"))
             .and_then(Json::as_array)
         {
-            self.check_alternatives(node, alts, path, out);
+            self.check_alternatives(node, schema, alts, path, out);
         }
         if let Some(types) = schema.get("type")
             && !type_matches(node, types)
@@ -224,7 +224,14 @@ impl<'s> Checker<'s> {
         }
     }
 
-    fn check_alternatives(&self, node: &Node, alts: &'s [Json], path: &KeyPath, out: &mut Collector<'_>) {
+    fn check_alternatives(
+        &self,
+        node: &Node,
+        parent: &'s Json,
+        alts: &'s [Json],
+        path: &KeyPath,
+        out: &mut Collector<'_>,
+    ) {
         let alts: Vec<&Json> = alts.iter().map(|a| self.resolve(a)).collect();
         if let (Value::Map(entries), Some(tag)) = (&node.value, tag_key(&alts)) {
             let options: Vec<&str> = alts.iter().filter_map(|a| tag_value(a, &tag)).collect();
@@ -243,14 +250,22 @@ impl<'s> Checker<'s> {
                         .find(|a| matches!(&v.value, Value::String(s) if tag_value(a, &tag) == Some(s)));
                     match chosen {
                         Some(a) => self.check(node, a, path, out),
-                        None => out.error(
-                            &path.key(&tag),
-                            format!(
-                                "{} is not a known `{tag}`; use one of: {}",
-                                describe_node(v),
-                                options.join(", ")
-                            ),
-                        ),
+                        None => {
+                            // Kinds the product defines but this version cannot run yet.
+                            let planned = parent
+                                .get(format!("x-planned-{tag}s"))
+                                .and_then(Json::as_array)
+                                .is_some_and(|p| p.iter().any(|k| node_equals(v, k)));
+                            let what = if planned {
+                                format!("the {tag} {} is not supported yet", describe_node(v))
+                            } else {
+                                format!("{} is not a known `{tag}`", describe_node(v))
+                            };
+                            out.error(
+                                &path.key(&tag),
+                                format!("{what}; use one of: {}", options.join(", ")),
+                            );
+                        }
                     }
                 }
             }

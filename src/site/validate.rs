@@ -13,12 +13,6 @@ use std::path::Path;
 /// Default interval below 0 °C over which soil water freezes (see the engine for its reason).
 pub use crate::engine::column::DEFAULT_FREEZING_INTERVAL_K;
 
-/// Study kinds this version can run.
-pub const SUPPORTED_KINDS: &[&str] = &[];
-/// Study kinds that the product defines; those not in [`SUPPORTED_KINDS`] are refused as "not
-/// supported yet".
-pub const PLANNED_KINDS: &[&str] = &["heat-loss", "borefield", "frost", "cross-section"];
-
 pub struct Validator<'a, 'b> {
     pub out: &'b mut Collector<'a>,
     /// Folder of the site file: relative paths in it start here.
@@ -105,7 +99,7 @@ impl Validator<'_, '_> {
     }
 }
 
-fn round_sig(v: f64) -> String {
+pub fn round_sig(v: f64) -> String {
     format!("{}", (v * 1e6).round() / 1e6)
 }
 
@@ -460,41 +454,51 @@ fn studies(docs: &[StudyDoc], path: &KeyPath, v: &mut Validator) -> Option<Vec<S
     let mut ok = true;
     for (i, s) in docs.iter().enumerate() {
         let p = path.index(i);
-        if s.id.trim().is_empty() {
+        if s.id().trim().is_empty() {
             v.out.error(
                 &p.key("id"),
                 "a study id must not be empty; it names the study in the report and in file names",
             );
             ok = false;
-        } else if let Some(first) = seen.insert(s.id.as_str(), i) {
+        } else if let Some(first) = seen.insert(s.id(), i) {
             v.out.error(
                 &p.key("id"),
                 format!(
                     "the study id `{}` is already used by studies[{first}]; ids must be unique",
-                    s.id
+                    s.id()
                 ),
             );
             ok = false;
         }
-        if !SUPPORTED_KINDS.contains(&s.kind.as_str()) {
-            let supported = if SUPPORTED_KINDS.is_empty() {
-                "none yet (an empty `studies: []` reports the undisturbed ground)".to_string()
-            } else {
-                SUPPORTED_KINDS.join(", ")
-            };
-            let what = if PLANNED_KINDS.contains(&s.kind.as_str()) {
-                format!("the study kind `{}` is not supported yet", s.kind)
-            } else {
-                format!("`{}` is not a study kind", s.kind)
-            };
-            v.out.error(
-                &p.key("kind"),
-                format!("{what}; this version supports: {supported}"),
+    }
+    let studies: Vec<Option<Study>> = docs
+        .iter()
+        .enumerate()
+        .map(|(i, s)| study(s, &path.index(i), v))
+        .collect();
+    let studies: Option<Vec<Study>> = studies.into_iter().collect();
+    if ok { studies } else { None }
+}
+
+fn study(doc: &StudyDoc, path: &KeyPath, v: &mut Validator) -> Option<Study> {
+    use super::kinds::{cross_section, method};
+    match doc {
+        StudyDoc::CrossSection(d) => {
+            let m = method(
+                d.method,
+                Method::Numerical,
+                &[Method::Numerical],
+                &path.key("method"),
+                v,
             );
-            ok = false;
+            let section = cross_section::validate(d, path, v);
+            Some(Study {
+                id: d.id.clone(),
+                method: m?,
+                kind: StudyKind::CrossSection(section?),
+            })
         }
     }
-    ok.then(Vec::new)
 }
 
 /// Validates the pipes of a study's cross-section: sizes, wall layers, what drives each pipe, and

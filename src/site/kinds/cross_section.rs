@@ -1,0 +1,338 @@
+//! `kind: cross-section`: a free 2-D section of the ground with pipes, probes and inclusions.
+
+use super::MethodDoc;
+use crate::model::{CrossSection, Inclusion, Probe, SectionTime};
+use crate::site::diagnostic::KeyPath;
+use crate::site::doc::PipeDoc;
+use crate::site::quantity::*;
+use crate::site::validate::{self, Validator, round_sig};
+use schemars::JsonSchema;
+use serde::Deserialize;
+
+/// A 2-D cross-section of the ground (x across, depth down) solved by the finite-volume engine.
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct CrossSectionDoc {
+    /// A unique name for the study, used in the report and in file names.
+    pub id: String,
+    /// Only `numerical` applies to this kind (the default).
+    #[serde(default)]
+    pub method: Option<MethodDoc>,
+    /// Thermal resistance between the surface temperature and the ground (default 0: the surface
+    /// temperature is imposed on the ground).
+    #[serde(default)]
+    pub surface_resistance: Option<Q<ArealResistance>>,
+    /// Size of the section: it spans x = −width/2 … width/2 and depth 0 … depth.
+    pub domain: DomainDoc,
+    /// Smallest and largest cell size of the grid (default 0.02 m and 0.5 m).
+    #[serde(default)]
+    pub cell_size: Option<CellSizeDoc>,
+    /// A duration and a fixed step, or `steady: true`.
+    pub time: TimeDoc,
+    /// Pipes in the section.
+    #[serde(default)]
+    pub pipes: Vec<PipeDoc>,
+    /// Points whose temperature is recorded over time.
+    #[serde(default)]
+    pub probes: Vec<ProbeDoc>,
+    /// Rectangles of another material (insulation boards, duct banks, road bases).
+    #[serde(default)]
+    pub inclusions: Vec<InclusionDoc>,
+    /// Times (from the start) at which the temperature field is plotted.
+    #[serde(default)]
+    pub snapshots: Vec<Q<Time>>,
+}
+
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct DomainDoc {
+    /// Width of the section.
+    pub width: Q<Length>,
+    /// Depth of the section's bottom below the surface.
+    pub depth: Q<Length>,
+}
+
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct CellSizeDoc {
+    /// Smallest cell size (near the surface and the pipes).
+    pub min: Q<Length>,
+    /// Largest cell size (far from everything).
+    pub max: Q<Length>,
+}
+
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct TimeDoc {
+    /// Solve the steady state of the annual-mean surface and fluid temperatures instead.
+    #[serde(default)]
+    pub steady: Option<bool>,
+    /// Simulated time from the start.
+    #[serde(default)]
+    pub duration: Option<Q<Time>>,
+    /// Time step.
+    #[serde(default)]
+    pub step: Option<Q<Time>>,
+}
+
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct ProbeDoc {
+    /// A name for the probe.
+    pub id: String,
+    /// Horizontal position.
+    pub x: Q<Length>,
+    /// Depth below the surface.
+    pub depth: Q<Length>,
+}
+
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct InclusionDoc {
+    /// A name for the inclusion.
+    pub id: String,
+    /// Horizontal position of the rectangle's centre.
+    pub x: Q<Length>,
+    /// Depth of the rectangle's top edge.
+    pub depth: Q<Length>,
+    /// Horizontal size.
+    pub width: Q<Length>,
+    /// Vertical size (thickness of a board).
+    pub height: Q<Length>,
+    /// Thermal conductivity of the material.
+    pub conductivity: Q<Conductivity>,
+    /// Volumetric heat capacity of the material.
+    pub heat_capacity: Q<VolumetricHeatCapacity>,
+}
+
+pub fn validate(doc: &CrossSectionDoc, path: &KeyPath, v: &mut Validator) -> Option<CrossSection> {
+    let width = v.positive_q(
+        &doc.domain.width,
+        &path.key("domain").key("width"),
+        "the section width",
+    );
+    let depth = v.positive_q(
+        &doc.domain.depth,
+        &path.key("domain").key("depth"),
+        "the section depth",
+    );
+    let (cell_min, cell_max) = match &doc.cell_size {
+        None => (Some(0.02), Some(0.5)),
+        Some(c) => {
+            let p = path.key("cell_size");
+            let lo = v.positive_q(&c.min, &p.key("min"), "the smallest cell size");
+            let hi = v.positive_q(&c.max, &p.key("max"), "the largest cell size");
+            if let (Some(a), Some(b)) = (lo, hi)
+                && a > b
+            {
+                v.out.error(
+                    &p.key("min"),
+                    format!("the smallest cell size ({a} m) exceeds the largest ({b} m)"),
+                );
+            }
+            (lo, hi)
+        }
+    };
+    let surface_r = match &doc.surface_resistance {
+        None => Some(0.0),
+        Some(q) => {
+            let r = v.q(q, &path.key("surface_resistance"));
+            v.within(
+                r,
+                (0.0, f64::INFINITY),
+                &path.key("surface_resistance"),
+                "the surface resistance",
+            )
+        }
+    };
+    let time = time(&doc.time, &path.key("time"), v);
+    let pipes = validate::pipes(&doc.pipes, &path.key("pipes"), v);
+    let probes: Vec<Option<Probe>> = doc
+        .probes
+        .iter()
+        .enumerate()
+        .map(|(i, p)| {
+            let pp = path.key("probes").index(i);
+            let x = v.q(&p.x, &pp.key("x"));
+            let z = v.q(&p.depth, &pp.key("depth"));
+            let z = v.within(z, (0.0, f64::INFINITY), &pp.key("depth"), "a probe depth");
+            Some(Probe {
+                id: p.id.clone(),
+                x_m: x?,
+                depth_m: z?,
+            })
+        })
+        .collect();
+    let inclusions: Vec<Option<Inclusion>> = doc
+        .inclusions
+        .iter()
+        .enumerate()
+        .map(|(i, d)| inclusion(d, &path.key("inclusions").index(i), v))
+        .collect();
+    let snapshots: Vec<Option<f64>> = doc
+        .snapshots
+        .iter()
+        .enumerate()
+        .map(|(i, q)| {
+            let p = path.key("snapshots").index(i);
+            let t = v.q(q, &p);
+            v.within(t, (0.0, f64::INFINITY), &p, "a snapshot time")
+        })
+        .collect();
+    let section = CrossSection {
+        width_m: width?,
+        depth_m: depth?,
+        cell_min_m: cell_min?,
+        cell_max_m: cell_max?,
+        time: time?,
+        pipes: pipes?,
+        probes: probes.into_iter().collect::<Option<_>>()?,
+        inclusions: inclusions.into_iter().collect::<Option<_>>()?,
+        snapshots_s: snapshots.into_iter().collect::<Option<_>>()?,
+        surface_resistance_m2_k_w: surface_r?,
+    };
+    geometry(&section, path, v).then_some(section)
+}
+
+fn time(doc: &TimeDoc, path: &KeyPath, v: &mut Validator) -> Option<SectionTime> {
+    match (doc.steady, &doc.duration, &doc.step) {
+        (Some(true), None, None) => Some(SectionTime::Steady),
+        (Some(true), _, _) => {
+            v.out.error(
+                path,
+                "a steady solve takes no `duration` or `step`; remove them or set `steady: false`",
+            );
+            None
+        }
+        (_, Some(d), Some(s)) => {
+            let d = v.positive_q(d, &path.key("duration"), "the duration");
+            let s = v.positive_q(s, &path.key("step"), "the time step");
+            if let (Some(d), Some(s)) = (d, s)
+                && s > d
+            {
+                v.out.error(
+                    &path.key("step"),
+                    format!("the step ({s} s) is longer than the duration ({d} s)"),
+                );
+                return None;
+            }
+            Some(SectionTime::Transient {
+                duration_s: d?,
+                step_s: s?,
+            })
+        }
+        _ => {
+            v.out.error(
+                path,
+                "give `duration` and `step` (for example `{duration: 3 years, step: 6 h}`) or `steady: true`",
+            );
+            None
+        }
+    }
+}
+
+fn inclusion(d: &InclusionDoc, path: &KeyPath, v: &mut Validator) -> Option<Inclusion> {
+    let x = v.q(&d.x, &path.key("x"));
+    let z = v.q(&d.depth, &path.key("depth"));
+    let z = v.within(
+        z,
+        (0.0, f64::INFINITY),
+        &path.key("depth"),
+        "the depth of an inclusion's top",
+    );
+    let w = v.positive_q(&d.width, &path.key("width"), "an inclusion width");
+    let h = v.positive_q(&d.height, &path.key("height"), "an inclusion height");
+    let k = v.positive_q(
+        &d.conductivity,
+        &path.key("conductivity"),
+        "an inclusion conductivity",
+    );
+    let c = v.positive_q(
+        &d.heat_capacity,
+        &path.key("heat_capacity"),
+        "an inclusion heat capacity",
+    );
+    Some(Inclusion {
+        id: d.id.clone(),
+        x_m: x?,
+        depth_m: z?,
+        width_m: w?,
+        height_m: h?,
+        conductivity_w_m_k: k?,
+        heat_capacity_j_m3_k: c?,
+    })
+}
+
+/// Everything must lie inside the domain; no pipe may cut an inclusion.
+fn geometry(s: &CrossSection, path: &KeyPath, v: &mut Validator) -> bool {
+    let half = s.width_m / 2.0;
+    let mut ok = true;
+    for (i, p) in s.pipes.iter().enumerate() {
+        let r = p.outer_radius_m();
+        if p.x_m.abs() + r > half || p.depth_m + r > s.depth_m {
+            v.out.error(
+                &path.key("pipes").index(i),
+                format!(
+                    "pipe `{}` reaches outside the section (x −{half} … {half} m, depth 0 … {} m); widen or deepen the domain",
+                    p.id, s.depth_m
+                ),
+            );
+            ok = false;
+        }
+        for (j, b) in s.inclusions.iter().enumerate() {
+            let dx = (p.x_m - b.x_m).abs() - b.width_m / 2.0;
+            let dz = (p.depth_m - (b.depth_m + b.height_m / 2.0)).abs() - b.height_m / 2.0;
+            let gap = dx.max(0.0).hypot(dz.max(0.0));
+            if gap < r {
+                v.out.error(
+                    &path.key("inclusions").index(j),
+                    format!(
+                        "inclusion `{}` cuts through pipe `{}`; a pipe must lie wholly in the soil",
+                        b.id, p.id
+                    ),
+                );
+                ok = false;
+            }
+        }
+    }
+    for (i, p) in s.probes.iter().enumerate() {
+        if p.x_m.abs() > half || p.depth_m > s.depth_m {
+            v.out.error(
+                &path.key("probes").index(i),
+                format!("probe `{}` lies outside the section", p.id),
+            );
+            ok = false;
+        }
+    }
+    for (i, b) in s.inclusions.iter().enumerate() {
+        if (b.x_m).abs() + b.width_m / 2.0 > half + 1e-12 || b.depth_m + b.height_m > s.depth_m + 1e-12 {
+            v.out.error(
+                &path.key("inclusions").index(i),
+                format!("inclusion `{}` reaches outside the section", b.id),
+            );
+            ok = false;
+        }
+    }
+    if let SectionTime::Transient { duration_s, .. } = s.time {
+        for (i, t) in s.snapshots_s.iter().enumerate() {
+            if *t > duration_s {
+                v.out.error(
+                    &path.key("snapshots").index(i),
+                    format!(
+                        "a snapshot at {} d lies after the end of the run ({} d)",
+                        round_sig(t / 86_400.0),
+                        round_sig(duration_s / 86_400.0)
+                    ),
+                );
+                ok = false;
+            }
+        }
+    }
+    if s.cell_min_m > s.width_m.min(s.depth_m) / 10.0 {
+        v.out.warning(
+            &path.key("cell_size").key("min"),
+            "the smallest cell is more than a tenth of the section; results will be coarse",
+        );
+    }
+    ok
+}
