@@ -141,6 +141,7 @@ impl Method {
 #[derive(Clone, Debug, PartialEq)]
 pub enum StudyKind {
     CrossSection(CrossSection),
+    HeatLoss(HeatLoss),
 }
 
 impl StudyKind {
@@ -148,6 +149,7 @@ impl StudyKind {
     pub fn name(&self) -> &'static str {
         match self {
             StudyKind::CrossSection(_) => "cross-section",
+            StudyKind::HeatLoss(_) => "heat-loss",
         }
     }
 }
@@ -243,4 +245,45 @@ impl Pipe {
     pub fn cover_m(&self) -> f64 {
         self.depth_m - self.outer_radius_m()
     }
+}
+
+/// Heat loss of buried pipes in one trench (district heating), with optional insulation sizing
+/// and neighbouring points whose soil temperature matters.
+#[derive(Clone, Debug, PartialEq)]
+pub struct HeatLoss {
+    /// Trench length for route totals, m.
+    pub length_m: f64,
+    pub pipes: Vec<Pipe>,
+    pub surface_resistance_m2_k_w: f64,
+    pub sizing: Option<Sizing>,
+    pub neighbours: Vec<Neighbour>,
+}
+
+/// Candidate thicknesses of one named wall layer.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Sizing {
+    pub layer: String,
+    pub thicknesses_m: Vec<f64>,
+    /// On the trench total (all pipes), W/m.
+    pub heat_loss_limit_w_per_m: Option<f64>,
+    pub economic: Option<Economics>,
+}
+
+#[derive(Clone, Debug, PartialEq)]
+pub struct Economics {
+    /// Currency units per MWh of heat lost.
+    pub heat_price_per_mwh: f64,
+    /// Installed cost of each candidate per metre of trench, currency units.
+    pub cost_per_metre: Vec<f64>,
+    pub years: f64,
+    pub discount_rate: f64,
+}
+
+/// A point in the soil whose temperature matters.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Neighbour {
+    pub id: String,
+    pub x_m: f64,
+    pub depth_m: f64,
+    pub limit_c: Option<f64>,
 }

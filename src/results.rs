@@ -56,14 +56,124 @@ pub struct ProfileRow {
     pub max_c: f64,
 }
 
-/// One study's figures. Each kind adds its own keys beside the common ones.
+/// One study's figures: the common keys, then the kind's own.
 #[derive(Clone, Debug, Serialize)]
 pub struct StudyResult {
     pub id: String,
     pub kind: String,
     pub method: String,
     #[serde(flatten)]
-    pub figures: serde_json::Map<String, serde_json::Value>,
+    pub figures: Figures,
+}
+
+/// The figures of each study kind.
+#[derive(Clone, Debug, Serialize)]
+#[serde(untagged)]
+pub enum Figures {
+    HeatLoss(HeatLossResult),
+}
+
+/// A 2-D temperature field on cell centres, for plots (not serialised into results.json).
+#[derive(Clone, Debug, Default)]
+pub struct Field {
+    /// What the field shows, e.g. "January, coldest ground".
+    pub label: String,
+    pub x_m: Vec<f64>,
+    pub z_m: Vec<f64>,
+    /// `values_c[iz][ix]`.
+    pub values_c: Vec<Vec<f64>>,
+}
+
+/// `kind: heat-loss` (contract in issue "District-heating pipes").
+#[derive(Clone, Debug, Serialize)]
+pub struct HeatLossResult {
+    pub pipes: Vec<PipeLoss>,
+    /// All pipes together, annual mean, W per metre of trench.
+    pub total_heat_loss_w_per_m: f64,
+    /// Trench total over `length`, MWh per year.
+    pub annual_heat_loss_mwh: f64,
+    pub length_m: f64,
+    /// Conductivity of the soil the analytic method used (the layer at the pipes).
+    pub soil_conductivity_w_m_k: f64,
+    pub surface_resistance_m2_k_per_w: f64,
+    /// Undisturbed monthly ground temperature at the mean pipe depth, °C.
+    pub monthly_ground_temperature_c: Vec<f64>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub sizing: Option<SizingResult>,
+    pub neighbours: Vec<NeighbourResult>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub cross_check: Option<CrossCheck>,
+    /// The section's temperature in the month of the largest loss, for the report.
+    #[serde(skip)]
+    pub field: Option<Field>,
+}
+
+#[derive(Clone, Debug, Serialize)]
+pub struct PipeLoss {
+    pub id: String,
+    /// Annual mean heat given to the ground, W per metre of pipe.
+    pub heat_loss_w_per_m: f64,
+    pub annual_heat_loss_kwh_per_m: f64,
+    /// Annual mean loss over (mean fluid − mean undisturbed ground temperature at the pipe).
+    pub u_w_per_m_k: f64,
+    pub monthly_heat_loss_w_per_m: Vec<f64>,
+    pub monthly_fluid_temperature_c: Vec<f64>,
+}
+
+#[derive(Clone, Debug, Serialize)]
+pub struct SizingResult {
+    pub layer: String,
+    /// The thinnest candidate meeting the limit (absent when none does or no limit was given).
+    pub chosen_insulation_thickness_m: Option<f64>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub heat_loss_limit_w_per_m: Option<f64>,
+    /// The candidate with the lowest life-cycle cost, when economics were given.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub cheapest_insulation_thickness_m: Option<f64>,
+    pub candidates: Vec<Candidate>,
+}
+
+#[derive(Clone, Debug, Serialize)]
+pub struct Candidate {
+    pub insulation_thickness_m: f64,
+    /// Trench total (all pipes), annual mean, W/m: the figure the limit applies to.
+    pub heat_loss_w_per_m: f64,
+    pub annual_heat_loss_kwh_per_m: f64,
+    /// Outer diameter of each pipe with this thickness, m (pipe order).
+    pub outer_diameters_m: Vec<f64>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub meets_limit: Option<bool>,
+    /// Present value of the heat lost plus the installed cost, currency per metre of trench.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub life_cycle_cost_per_m: Option<f64>,
+}
+
+#[derive(Clone, Debug, Serialize)]
+pub struct NeighbourResult {
+    pub id: String,
+    pub x_m: f64,
+    pub depth_m: f64,
+    /// Highest monthly-mean soil temperature over the year, °C.
+    pub max_temperature_c: f64,
+    /// Month (1–12) of that highest value.
+    pub month_of_max: usize,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub limit_c: Option<f64>,
+    pub exceeds_limit: bool,
+}
+
+/// The other method's figures beside the study's own.
+#[derive(Clone, Debug, Serialize)]
+pub struct CrossCheck {
+    pub method: String,
+    pub pipes: Vec<CrossCheckPipe>,
+    pub max_relative_difference: f64,
+}
+
+#[derive(Clone, Debug, Serialize)]
+pub struct CrossCheckPipe {
+    pub id: String,
+    pub heat_loss_w_per_m: f64,
 }
 
 #[derive(Clone, Copy, Debug, Serialize, PartialEq, Eq, PartialOrd, Ord)]

@@ -397,27 +397,65 @@ fn a_missing_series_file_is_refused() {
 }
 
 #[test]
-fn duplicate_study_ids_and_unsupported_kinds_are_refused() {
-    let text = GOOD.replace("studies: []\n", "studies:\n  - id: a\n    kind: frost\n  - id: a\n    kind: heat-loss\n  - id: b\n    kind: sunbathing\n");
-    let o = try_site("studies", text.as_bytes());
+fn unsupported_and_unknown_study_kinds_are_refused() {
+    let text = GOOD.replace(
+        "studies: []\n",
+        "studies:\n  - id: a\n    kind: frost\n  - id: b\n    kind: sunbathing\n",
+    );
+    let o = try_site("kinds", text.as_bytes());
+    assert_eq!(o.code, 1);
+    assert!(o.stdout.contains("site.yaml:19:11: error: studies[0].kind: the kind `frost` is not supported yet; use one of: heat-loss"), "{}", o.stdout);
+    assert!(o.stdout.contains("site.yaml:21:11: error: studies[1].kind: `sunbathing` is not a known `kind`; use one of: heat-loss"), "{}", o.stdout);
+}
+
+const HEAT_LOSS: &str = "  - id: ID
+    kind: heat-loss
+    pipes:
+      - {id: p, depth: 1 m, outer_diameter: 200 mm, fluid: {temperature: 70 °C}, layers: [{name: pur, thickness: 50 mm, conductivity: 0.027}]}
+";
+
+#[test]
+fn duplicate_and_unsafe_study_ids_are_refused() {
+    let studies = format!(
+        "studies:\n{}{}{}",
+        HEAT_LOSS.replace("ID", "trunk"),
+        HEAT_LOSS.replace("ID", "trunk"),
+        HEAT_LOSS.replace("ID", "../x")
+    );
+    let text = GOOD.replace("studies: []\n", &studies);
+    let o = try_site("ids", text.as_bytes());
     assert_eq!(o.code, 1);
     assert!(
-        o.stdout
-            .contains("site.yaml:20:9: error: studies[1].id: the study id `a` is already used by studies[0]"),
+        o.stdout.contains(
+            "site.yaml:22:9: error: studies[1].id: the study id `trunk` is already used by studies[0]"
+        ),
         "{}",
         o.stdout
     );
     assert!(
         o.stdout
-            .contains("studies[0].kind: the study kind `frost` is not supported yet"),
+            .contains("site.yaml:26:9: error: studies[2].id: the study id `../x` names files"),
         "{}",
         o.stdout
     );
-    assert!(
-        o.stdout
-            .contains("studies[2].kind: `sunbathing` is not a study kind"),
-        "{}",
-        o.stdout
+}
+
+#[test]
+fn a_pipe_above_the_surface_is_refused() {
+    let studies = format!(
+        "studies:\n{}",
+        HEAT_LOSS
+            .replace("ID", "trunk")
+            .replace("depth: 1 m", "depth: 0.05 m")
+    );
+    let text = GOOD.replace("studies: []\n", &studies);
+    refused(
+        "pipe-above",
+        text.as_bytes(),
+        21,
+        24,
+        "studies[0].pipes[0].depth",
+        "above the ground surface",
     );
 }
 

@@ -198,6 +198,22 @@ impl Undisturbed {
         }
     }
 
+    /// Mean temperature at depth `z_m` in each of the twelve equal months (January first), °C:
+    /// the mean of the month's daily values.
+    pub fn monthly_mean_at(&self, z_m: f64) -> [f64; 12] {
+        let days = 365.0 / 12.0;
+        let mut out = [0.0; 12];
+        for (m, o) in out.iter_mut().enumerate() {
+            let start = m as f64 * days;
+            let n = 30;
+            *o = (0..n)
+                .map(|i| self.at(z_m, (start + (i as f64 + 0.5) * days / n as f64) * DAY_S))
+                .sum::<f64>()
+                / n as f64;
+        }
+        out
+    }
+
     /// Surface temperature of the typical year, one value per day (at midday).
     pub fn surface_daily_c(&self) -> Vec<f64> {
         (0..365)

@@ -4,10 +4,10 @@
 // HTML is written line by line; a trailing `\n` in `write!` keeps the markup readable.
 #![allow(clippy::write_with_newline)]
 
-use super::Figure;
 use super::plot::{Band, LinePlot, Series, SeriesStyle};
+use super::{Figure, ReportFigures};
 use crate::model::{Climate, Site};
-use crate::results::{Level, Results};
+use crate::results::{Figures, Level, Results};
 use crate::site::units::{Dimension, format_quantity};
 use std::fmt::Write;
 
@@ -48,7 +48,7 @@ section.study { page-break-before: always; break-before: page; }
 "#;
 
 /// The whole report page.
-pub fn report(results: &Results, site: &Site, figures: &[Figure]) -> String {
+pub fn report(results: &Results, site: &Site, figures: &ReportFigures) -> String {
     let mut h = String::new();
     let _ = write!(
         h,
@@ -59,7 +59,8 @@ pub fn report(results: &Results, site: &Site, figures: &[Figure]) -> String {
     warnings(&mut h, results);
     summary(&mut h, results);
     inputs(&mut h, site);
-    ground(&mut h, results, figures);
+    ground(&mut h, results, &figures.ground);
+    studies(&mut h, results, &figures.studies);
     let _ = write!(
         h,
         "<h2 id=\"cautions\">Cautions</h2>\n<p class=\"cautions\">{}</p>\n</body>\n</html>\n",
@@ -244,15 +245,7 @@ fn ground(h: &mut String, r: &Results, figures: &[Figure]) {
         h,
         "<h2 id=\"ground\">Undisturbed ground</h2>\n<p>Found by {method}.</p>\n"
     );
-    for f in figures {
-        let _ = write!(
-            h,
-            "<figure id=\"fig-{}\">\n{}\n<figcaption>{}</figcaption>\n</figure>\n",
-            esc(&f.stem),
-            strip_xml_declaration(&f.rendered.svg),
-            esc(&f.caption)
-        );
-    }
+    figure_list(h, figures);
     let _ = write!(
         h,
         "<table>\n<tr><th class=\"n\">depth</th><th class=\"n\">mean</th><th class=\"n\">lowest</th><th class=\"n\">highest</th></tr>\n"
@@ -268,6 +261,37 @@ fn ground(h: &mut String, r: &Results, figures: &[Figure]) {
         h,
         "</table>\n<p class=\"meta\">Every 0.25 m in <code>ground-profile.csv</code>.</p>\n"
     );
+}
+
+fn figure_list(h: &mut String, figures: &[Figure]) {
+    for f in figures {
+        let _ = write!(
+            h,
+            "<figure id=\"fig-{}\">\n{}\n<figcaption>{}</figcaption>\n</figure>\n",
+            esc(&f.stem),
+            strip_xml_declaration(&f.rendered.svg),
+            esc(&f.caption)
+        );
+    }
+}
+
+/// One section per study: its method, figures and key results.
+fn studies(h: &mut String, r: &Results, figures: &[Vec<Figure>]) {
+    for (s, figs) in r.studies.iter().zip(figures) {
+        let _ = write!(
+            h,
+            "<section class=\"study\" id=\"study-{}\">\n<h2>Study {} <span class=\"meta\">({}, {} method)</span></h2>\n",
+            esc(&s.id),
+            esc(&s.id),
+            esc(&s.kind),
+            esc(&s.method)
+        );
+        match &s.figures {
+            Figures::HeatLoss(hl) => super::heat_loss::section(h, hl),
+        }
+        figure_list(h, figs);
+        let _ = write!(h, "</section>\n");
+    }
 }
 
 fn is_listed_depth(z: f64) -> bool {

@@ -5,11 +5,12 @@
 //! failed run leaves either the previous bundle or nothing, never half of one.
 
 pub mod csv;
+pub mod heat_loss;
 pub mod html;
 pub mod plot;
 
 use crate::model::Site;
-use crate::results::Results;
+use crate::results::{Figures, Results};
 use std::path::Path;
 
 /// One figure of the report: its file stem, caption and rendering.
@@ -19,9 +20,20 @@ pub struct Figure {
     pub rendered: plot::Rendered,
 }
 
-/// Every figure of the report, in order.
-pub fn figures(results: &Results) -> Result<Vec<Figure>, String> {
-    Ok(vec![
+/// The figures of the report: the undisturbed ground's, then each study's (in study order).
+pub struct ReportFigures {
+    pub ground: Vec<Figure>,
+    pub studies: Vec<Vec<Figure>>,
+}
+
+impl ReportFigures {
+    pub fn all(&self) -> impl Iterator<Item = &Figure> {
+        self.ground.iter().chain(self.studies.iter().flatten())
+    }
+}
+
+pub fn figures(results: &Results) -> Result<ReportFigures, String> {
+    let ground = vec![
         Figure {
             stem: "ground-profile".into(),
             caption: "Undisturbed ground temperature: the annual range (band) and mean against depth.".into(),
@@ -30,9 +42,31 @@ pub fn figures(results: &Results) -> Result<Vec<Figure>, String> {
         Figure {
             stem: "surface-temperature".into(),
             caption: "Ground-surface temperature over the typical year.".into(),
-            rendered: plot::render_line_plot(&html::surface_plot(results), 720, 360)?,
+            rendered: plot::render_line_plot(&html::surface_plot(results), 720, 400)?,
         },
-    ])
+    ];
+    let studies = results
+        .studies
+        .iter()
+        .map(|s| match &s.figures {
+            Figures::HeatLoss(h) => heat_loss::figures(s, h),
+        })
+        .collect::<Result<_, _>>()?;
+    Ok(ReportFigures { ground, studies })
+}
+
+/// Every CSV of the bundle: file name and text.
+fn csv_files(results: &Results) -> Vec<(String, String)> {
+    let mut files = vec![
+        ("ground-profile.csv".to_string(), csv::ground_profile(results)),
+        ("surface-temperature.csv".to_string(), csv::surface_daily(results)),
+    ];
+    for s in &results.studies {
+        match &s.figures {
+            Figures::HeatLoss(h) => files.push((format!("{}-monthly.csv", s.id), heat_loss::monthly_csv(h))),
+        }
+    }
+    files
 }
 
 /// Writes `report.html`, `results.json`, the CSV files and every plot (SVG and PNG) to `out_dir`.
@@ -58,9 +92,10 @@ pub fn write_bundle(results: &Results, site: &Site, out_dir: &Path) -> Result<()
     let json =
         serde_json::to_string_pretty(results).map_err(|e| format!("cannot serialise the results: {e}"))?;
     write("results.json", json.as_bytes())?;
-    write("ground-profile.csv", csv::ground_profile(results).as_bytes())?;
-    write("surface-temperature.csv", csv::surface_daily(results).as_bytes())?;
-    for f in &figures {
+    for (name, text) in csv_files(results) {
+        write(&name, text.as_bytes())?;
+    }
+    for f in figures.all() {
         write(&format!("plots/{}.svg", f.stem), f.rendered.svg.as_bytes())?;
         write(&format!("plots/{}.png", f.stem), &f.rendered.png)?;
     }

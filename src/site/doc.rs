@@ -138,16 +138,16 @@ pub struct LayerDoc {
 /// One study; `kind` says which, and each kind has its own keys.
 #[derive(Debug, Deserialize, JsonSchema)]
 #[serde(tag = "kind", rename_all = "kebab-case")]
-#[schemars(extend("x-planned-kinds" = ["heat-loss", "borefield", "frost"]))]
+#[schemars(extend("x-planned-kinds" = ["borefield", "frost", "cross-section"]))]
 pub enum StudyDoc {
-    /// A free 2-D cross-section of the ground solved by the finite-volume engine.
-    CrossSection(super::kinds::cross_section::CrossSectionDoc),
+    /// Heat loss of buried district-heating pipes, insulation sizing, neighbouring utilities.
+    HeatLoss(super::kinds::heat_loss::HeatLossDoc),
 }
 
 impl StudyDoc {
     pub fn id(&self) -> &str {
         match self {
-            StudyDoc::CrossSection(d) => &d.id,
+            StudyDoc::HeatLoss(d) => &d.id,
         }
     }
 }

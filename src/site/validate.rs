@@ -460,6 +460,16 @@ fn studies(docs: &[StudyDoc], path: &KeyPath, v: &mut Validator) -> Option<Vec<S
                 "a study id must not be empty; it names the study in the report and in file names",
             );
             ok = false;
+        } else if !s
+            .id()
+            .chars()
+            .all(|c| c.is_ascii_alphanumeric() || matches!(c, '-' | '_' | '.'))
+        {
+            v.out.error(
+                &p.key("id"),
+                format!("the study id `{}` names files in the bundle, so it may hold only letters, digits, `-`, `_` and `.`", s.id()),
+            );
+            ok = false;
         } else if let Some(first) = seen.insert(s.id(), i) {
             v.out.error(
                 &p.key("id"),
@@ -481,21 +491,21 @@ fn studies(docs: &[StudyDoc], path: &KeyPath, v: &mut Validator) -> Option<Vec<S
 }
 
 fn study(doc: &StudyDoc, path: &KeyPath, v: &mut Validator) -> Option<Study> {
-    use super::kinds::{cross_section, method};
+    use super::kinds::{heat_loss, method};
     match doc {
-        StudyDoc::CrossSection(d) => {
+        StudyDoc::HeatLoss(d) => {
             let m = method(
                 d.method,
-                Method::Numerical,
-                &[Method::Numerical],
+                Method::Analytic,
+                &heat_loss::METHODS,
                 &path.key("method"),
                 v,
             );
-            let section = cross_section::validate(d, path, v);
+            let study = heat_loss::validate(d, path, v);
             Some(Study {
                 id: d.id.clone(),
                 method: m?,
-                kind: StudyKind::CrossSection(section?),
+                kind: StudyKind::HeatLoss(study?),
             })
         }
     }

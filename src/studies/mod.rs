@@ -4,19 +4,30 @@
 //! Kinds the product defines but this version cannot run are listed in the schema
 //! (`x-planned-kinds`) and refused by the site check with a "not supported yet" message.
 
+pub mod heat_loss;
+
 use crate::ground::profile::Undisturbed;
-use crate::model::{Site, Study};
-use crate::results::{StudyResult, Warning};
+use crate::model::{Site, Study, StudyKind};
+use crate::results::{Figures, StudyResult, Warning};
 
 /// Runs one study against the site's undisturbed ground.
-pub fn run(
-    study: &Study,
-    _site: &Site,
-    _ground: &Undisturbed,
-) -> Result<(StudyResult, Vec<Warning>), String> {
-    match &study.kind {
-        crate::model::StudyKind::CrossSection(_) => Err("the cross-section engine is not built yet".into()),
-    }
+pub fn run(study: &Study, site: &Site, ground: &Undisturbed) -> Result<(StudyResult, Vec<Warning>), String> {
+    let (figures, warnings) = match &study.kind {
+        StudyKind::CrossSection(_) => return Err("the cross-section engine is not built yet".into()),
+        StudyKind::HeatLoss(h) => {
+            let (r, w) = heat_loss::run(&study.id, h, site, ground)?;
+            (Figures::HeatLoss(r), w)
+        }
+    };
+    Ok((
+        StudyResult {
+            id: study.id.clone(),
+            kind: study.kind.name().into(),
+            method: study.method.name().into(),
+            figures,
+        },
+        warnings,
+    ))
 }
 
 /// The deepest point any study of the site reaches (a borehole bottom, a model domain), m.
@@ -24,7 +35,8 @@ pub fn deepest_point_m(site: &Site) -> f64 {
     site.studies
         .iter()
         .map(|s| match &s.kind {
-            crate::model::StudyKind::CrossSection(c) => c.depth_m,
+            StudyKind::CrossSection(c) => c.depth_m,
+            StudyKind::HeatLoss(h) => h.pipes.iter().map(|p| 2.0 * p.depth_m).fold(0.0, f64::max),
         })
         .fold(0.0, f64::max)
 }

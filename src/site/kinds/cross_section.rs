@@ -13,7 +13,8 @@ use serde::Deserialize;
 #[derive(Debug, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct CrossSectionDoc {
-    /// A unique name for the study, used in the report and in file names.
+    /// A unique name for the study, used in the report and in file names (letters, digits, `-`,
+    /// `_`, `.`).
     pub id: String,
     /// Only `numerical` applies to this kind (the default).
     #[serde(default)]

@@ -1,0 +1,259 @@
+//! Report section, plots and CSV of a `heat-loss` study.
+
+// HTML is written line by line; a trailing `\n` in `write!` keeps the markup readable.
+#![allow(clippy::write_with_newline)]
+
+use super::Figure;
+use super::html::esc;
+use super::plot::{FieldPlot, LinePlot, Series, SeriesStyle, render_field_plot, render_line_plot};
+use crate::results::{HeatLossResult, StudyResult};
+use std::fmt::Write;
+
+pub fn figures(s: &StudyResult, h: &HeatLossResult) -> Result<Vec<Figure>, String> {
+    let mut out = Vec::new();
+    if let Some(f) = &h.field {
+        let markers = h
+            .neighbours
+            .iter()
+            .map(|n| (n.x_m, n.depth_m, n.id.clone()))
+            .collect();
+        let finite = f.values_c.iter().flatten().filter(|v| v.is_finite());
+        let (lo, hi) = finite.fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), &v| {
+            (a.min(v), b.max(v))
+        });
+        let plot = FieldPlot {
+            title: "Soil temperature around the pipes".into(),
+            x_label: "x (m)".into(),
+            z_label: "depth (m)".into(),
+            colour_bar_label: "temperature (°C)".into(),
+            x_m: f.x_m.clone(),
+            z_m: f.z_m.clone(),
+            values: f.values_c.clone(),
+            value_range: Some((lo, hi.min(lo + 60.0))),
+            isotherms: isotherm_levels(lo, hi.min(lo + 60.0)),
+            markers,
+        };
+        out.push(Figure {
+            stem: format!("{}-field", s.id),
+            caption: format!(
+                "Soil temperature in {}; isotherms labelled in °C; neighbours marked.",
+                f.label
+            ),
+            rendered: render_field_plot(&plot, 760, 460)?,
+        });
+    }
+    let months: Vec<f64> = (1..=12).map(f64::from).collect();
+    let series = h
+        .pipes
+        .iter()
+        .enumerate()
+        .map(|(i, p)| Series {
+            name: p.id.clone(),
+            points: months
+                .iter()
+                .zip(&p.monthly_heat_loss_w_per_m)
+                .map(|(m, q)| (*m, *q))
+                .collect(),
+            style: SeriesStyle::LineMarkers,
+            colour: i,
+        })
+        .collect();
+    out.push(Figure {
+        stem: format!("{}-monthly", s.id),
+        caption: "Monthly mean heat loss of each pipe.".into(),
+        rendered: render_line_plot(
+            &LinePlot {
+                title: "Monthly heat loss".into(),
+                x_label: "month".into(),
+                y_label: "heat loss (W/m)".into(),
+                series,
+                x_range: Some((1.0, 12.0)),
+                ..Default::default()
+            },
+            720,
+            400,
+        )?,
+    });
+    if let Some(sz) = &h.sizing {
+        let mut c: Vec<_> = sz.candidates.iter().collect();
+        c.sort_by(|a, b| a.insulation_thickness_m.total_cmp(&b.insulation_thickness_m));
+        let series = vec![Series {
+            name: "trench heat loss".into(),
+            points: c
+                .iter()
+                .map(|c| (c.insulation_thickness_m * 1000.0, c.heat_loss_w_per_m))
+                .collect(),
+            style: SeriesStyle::LineMarkers,
+            colour: 0,
+        }];
+        let hlines = sz
+            .heat_loss_limit_w_per_m
+            .map(|l| vec![(l, format!("limit {l} W/m"))])
+            .unwrap_or_default();
+        out.push(Figure {
+            stem: format!("{}-sizing", s.id),
+            caption: "Trench heat loss against the thickness of the varied layer.".into(),
+            rendered: render_line_plot(
+                &LinePlot {
+                    title: format!("Heat loss against {} thickness", sz.layer),
+                    x_label: format!("{} thickness (mm)", sz.layer),
+                    y_label: "heat loss (W/m)".into(),
+                    series,
+                    hlines,
+                    ..Default::default()
+                },
+                720,
+                400,
+            )?,
+        });
+        if c.iter().all(|c| c.life_cycle_cost_per_m.is_some()) {
+            out.push(Figure {
+                stem: format!("{}-life-cycle-cost", s.id),
+                caption: "Life-cycle cost per metre of trench: present value of the heat lost plus the installed cost.".into(),
+                rendered: render_line_plot(
+                    &LinePlot {
+                        title: "Life-cycle cost".into(),
+                        x_label: format!("{} thickness (mm)", sz.layer),
+                        y_label: "cost per metre".into(),
+                        series: vec![Series {
+                            name: "life-cycle cost".into(),
+                            points: c
+                                .iter()
+                                .map(|c| (c.insulation_thickness_m * 1000.0, c.life_cycle_cost_per_m.unwrap_or(f64::NAN)))
+                                .collect(),
+                            style: SeriesStyle::LineMarkers,
+                            colour: 2,
+                        }],
+                        ..Default::default()
+                    },
+                    720,
+                    400,
+                )?,
+            });
+        }
+    }
+    Ok(out)
+}
+
+/// Isotherms at round steps giving about eight lines over the range.
+pub fn isotherm_levels(lo: f64, hi: f64) -> Vec<f64> {
+    let span = (hi - lo).max(1e-9);
+    let step = [0.5, 1.0, 2.0, 2.5, 5.0, 10.0, 20.0]
+        .into_iter()
+        .find(|s| span / s <= 9.0)
+        .unwrap_or(20.0);
+    let first = (lo / step).ceil() * step;
+    (0..40)
+        .map(|i| first + i as f64 * step)
+        .take_while(|v| *v < hi)
+        .collect()
+}
+
+pub fn section(h_out: &mut String, h: &HeatLossResult) {
+    let _ = write!(
+        h_out,
+        "<p>Method: steady conduction month by month — each pipe a line source with its image above the surface (Kelvin; Carslaw &amp; Jaeger §10.10), the exact cylinder ground resistance acosh(H′/r)/(2πk), the surface resistance R0 = {} m² K/W as an added depth H′ = H + k·R0 (EN 13941-1 practice), wall layers as coaxial cylinders, the pair coupled through the mutual resistance (EN 13941-1; Wallentén 1991). Soil conductivity {:.2} W/(m K), the layer at the pipes.</p>\n",
+        h.surface_resistance_m2_k_per_w, h.soil_conductivity_w_m_k
+    );
+    let _ = write!(
+        h_out,
+        "<table>\n<tr><th>pipe</th><th class=\"n\">heat loss</th><th class=\"n\">per year</th><th class=\"n\">U</th></tr>\n"
+    );
+    for p in &h.pipes {
+        let _ = write!(
+            h_out,
+            "<tr><td>{}</td><td class=\"n\">{:.2} W/m</td><td class=\"n\">{:.1} kWh/m</td><td class=\"n\">{:.4} W/(m K)</td></tr>\n",
+            esc(&p.id),
+            p.heat_loss_w_per_m,
+            p.annual_heat_loss_kwh_per_m,
+            p.u_w_per_m_k
+        );
+    }
+    let _ = write!(
+        h_out,
+        "<tr><th>trench</th><th class=\"n\">{:.2} W/m</th><th class=\"n\">{:.1} MWh over {} m</th><th></th></tr>\n</table>\n",
+        h.total_heat_loss_w_per_m, h.annual_heat_loss_mwh, h.length_m
+    );
+    if !h.neighbours.is_empty() {
+        let _ = write!(
+            h_out,
+            "<h4>Neighbouring points</h4>\n<table>\n<tr><th>point</th><th class=\"n\">highest soil temperature</th><th class=\"n\">month</th><th class=\"n\">limit</th><th>passes</th></tr>\n"
+        );
+        for n in &h.neighbours {
+            let _ = write!(
+                h_out,
+                "<tr><td>{}</td><td class=\"n\">{:.1} °C</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td>{}</td></tr>\n",
+                esc(&n.id),
+                n.max_temperature_c,
+                n.month_of_max,
+                n.limit_c
+                    .map(|l| format!("{l:.1} °C"))
+                    .unwrap_or_else(|| "—".into()),
+                if n.limit_c.is_none() {
+                    "—"
+                } else if n.exceeds_limit {
+                    "no"
+                } else {
+                    "yes"
+                }
+            );
+        }
+        let _ = write!(h_out, "</table>\n");
+    }
+    if let Some(sz) = &h.sizing {
+        let _ = write!(
+            h_out,
+            "<h4>Insulation sizing ({})</h4>\n<p>The outer diameter follows the layer; the pipes keep their depth and their clear horizontal gaps. Thinnest meeting the limit: <b>{}</b>. Lowest life-cycle cost: <b>{}</b>.</p>\n<table>\n<tr><th class=\"n\">thickness</th><th class=\"n\">trench loss</th><th class=\"n\">per year</th><th>meets limit</th><th class=\"n\">life-cycle cost / m</th></tr>\n",
+            esc(&sz.layer),
+            sz.chosen_insulation_thickness_m
+                .map(|t| format!("{:.1} mm", t * 1000.0))
+                .unwrap_or_else(|| "none".into()),
+            sz.cheapest_insulation_thickness_m
+                .map(|t| format!("{:.1} mm", t * 1000.0))
+                .unwrap_or_else(|| "—".into()),
+        );
+        for c in &sz.candidates {
+            let _ = write!(
+                h_out,
+                "<tr><td class=\"n\">{:.1} mm</td><td class=\"n\">{:.2} W/m</td><td class=\"n\">{:.1} kWh/m</td><td>{}</td><td class=\"n\">{}</td></tr>\n",
+                c.insulation_thickness_m * 1000.0,
+                c.heat_loss_w_per_m,
+                c.annual_heat_loss_kwh_per_m,
+                match c.meets_limit {
+                    Some(true) => "yes",
+                    Some(false) => "no",
+                    None => "—",
+                },
+                c.life_cycle_cost_per_m
+                    .map(|v| format!("{v:.0}"))
+                    .unwrap_or_else(|| "—".into())
+            );
+        }
+        let _ = write!(h_out, "</table>\n");
+    }
+}
+
+/// `<id>-monthly.csv`: the monthly figures with units in the header.
+pub fn monthly_csv(h: &HeatLossResult) -> String {
+    let mut s = String::from("month,ground_temperature_c");
+    for p in &h.pipes {
+        let _ = write!(
+            s,
+            ",{0}_fluid_temperature_c,{0}_heat_loss_w_per_m",
+            p.id.replace(',', "_")
+        );
+    }
+    s.push('\n');
+    for m in 0..12 {
+        let _ = write!(s, "{},{:.4}", m + 1, h.monthly_ground_temperature_c[m]);
+        for p in &h.pipes {
+            let _ = write!(
+                s,
+                ",{:.4},{:.4}",
+                p.monthly_fluid_temperature_c[m], p.monthly_heat_loss_w_per_m[m]
+            );
+        }
+        s.push('\n');
+    }
+    s
+}
