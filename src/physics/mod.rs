@@ -2,5 +2,8 @@
 //! the site model, YAML, files or plotting.
 
 pub mod annual_wave;
+pub mod borehole;
 pub mod buried_pipe;
 pub mod frost;
+pub mod pipe_flow;
+pub mod superposition;
