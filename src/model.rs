@@ -142,6 +142,7 @@ impl Method {
 pub enum StudyKind {
     CrossSection(CrossSection),
     HeatLoss(HeatLoss),
+    Frost(Frost),
 }
 
 impl StudyKind {
@@ -150,6 +151,7 @@ impl StudyKind {
         match self {
             StudyKind::CrossSection(_) => "cross-section",
             StudyKind::HeatLoss(_) => "heat-loss",
+            StudyKind::Frost(_) => "frost",
         }
     }
 }
@@ -286,4 +288,20 @@ pub struct Neighbour {
     pub x_m: f64,
     pub depth_m: f64,
     pub limit_c: Option<f64>,
+}
+
+/// Frost penetration under the site's climate, and the safety of a water main.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Frost {
+    pub pipe: Option<Pipe>,
+    /// A design AIR freezing index that overrides the climate's, °C·days.
+    pub design_air_freezing_index_c_days: Option<f64>,
+    /// A surface type whose n-factors replace the climate's.
+    pub surface_preset: Option<String>,
+    /// Gumbel return period of the design winter (multi-year series), years.
+    pub return_period_years: Option<f64>,
+    /// Clearance between the frost depth and the crown for the required cover, m.
+    pub margin_m: f64,
+    /// A period without flow, s.
+    pub stagnant_s: Option<f64>,
 }

@@ -71,6 +71,7 @@ pub struct StudyResult {
 #[serde(untagged)]
 pub enum Figures {
     HeatLoss(HeatLossResult),
+    Frost(FrostResult),
 }
 
 /// A 2-D temperature field on cell centres, for plots (not serialised into results.json).
@@ -192,4 +193,82 @@ pub struct Warning {
     /// burrow's dotted name for the warning, e.g. `frost.at_pipe`.
     pub code: String,
     pub message: String,
+}
+
+/// `kind: frost` (contract in issue "Water mains").
+#[derive(Clone, Debug, Serialize)]
+pub struct FrostResult {
+    /// The SURFACE freezing index the methods use (n-factor × air index for air climates), °C·d.
+    pub design_freezing_index_c_days: f64,
+    /// The air freezing index, where the climate gives air temperatures, °C·d.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub air_freezing_index_c_days: Option<f64>,
+    /// How the design index was found.
+    pub design_index_basis: String,
+    pub frost_depth_m: FrostDepths,
+    /// The governing frost depth: the deeper of modified Berggren and the numerical free-field
+    /// depth (Stefan is an upper bound, shown only).
+    pub max_frost_depth_m: f64,
+    /// Mean annual surface temperature and length of the freezing season used by Berggren.
+    pub mean_annual_surface_c: f64,
+    pub freezing_season_days: f64,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub berggren: Option<BerggrenFigures>,
+    /// Seasonal surface freezing indices of a multi-year series, °C·d.
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub seasons: Vec<SeasonFigure>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub frost_reaches_pipe: Option<bool>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub pipe_crown_depth_m: Option<f64>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub pipe_min_temperature_c: Option<f64>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub water_min_temperature_c: Option<f64>,
+    /// Shallowest cover (surface to crown) keeping the crown `margin` below the governing frost
+    /// depth, m.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub required_cover_m: Option<f64>,
+    pub margin_m: f64,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub stagnant: Option<StagnantFigures>,
+    /// Cumulative surface degree-days over the design (typical) season, one value a day from
+    /// 1 July, for the report.
+    #[serde(skip)]
+    pub cumulative_degree_days: Vec<f64>,
+    /// Lowest undisturbed temperature against depth (depth, °C), for the report.
+    #[serde(skip)]
+    pub lowest_profile: Vec<(f64, f64)>,
+}
+
+#[derive(Clone, Debug, Serialize)]
+pub struct FrostDepths {
+    pub stefan: f64,
+    pub berggren: Option<f64>,
+    pub numerical: Option<f64>,
+}
+
+#[derive(Clone, Debug, Serialize)]
+pub struct BerggrenFigures {
+    pub lambda: f64,
+    pub thermal_ratio: f64,
+    pub fusion_parameter: f64,
+}
+
+#[derive(Clone, Debug, Serialize)]
+pub struct SeasonFigure {
+    pub start_year: i32,
+    pub freezing_index_c_days: f64,
+}
+
+#[derive(Clone, Debug, Serialize)]
+pub struct StagnantFigures {
+    pub duration_h: f64,
+    /// Hours until ice starts to form, when it does within the coldest conditions.
+    pub time_to_first_ice_h: Option<f64>,
+    /// Share of the water frozen at the end of the period.
+    pub ice_fraction: f64,
+    /// Ground temperature at the pipe and starting water temperature assumed, °C.
+    pub ground_temperature_c: f64,
+    pub initial_water_temperature_c: f64,
 }

@@ -400,12 +400,12 @@ fn a_missing_series_file_is_refused() {
 fn unsupported_and_unknown_study_kinds_are_refused() {
     let text = GOOD.replace(
         "studies: []\n",
-        "studies:\n  - id: a\n    kind: frost\n  - id: b\n    kind: sunbathing\n",
+        "studies:\n  - id: a\n    kind: borefield\n  - id: b\n    kind: sunbathing\n",
     );
     let o = try_site("kinds", text.as_bytes());
     assert_eq!(o.code, 1);
-    assert!(o.stdout.contains("site.yaml:19:11: error: studies[0].kind: the kind `frost` is not supported yet; use one of: heat-loss"), "{}", o.stdout);
-    assert!(o.stdout.contains("site.yaml:21:11: error: studies[1].kind: `sunbathing` is not a known `kind`; use one of: heat-loss"), "{}", o.stdout);
+    assert!(o.stdout.contains("site.yaml:19:11: error: studies[0].kind: the kind `borefield` is not supported yet; use one of: heat-loss, frost"), "{}", o.stdout);
+    assert!(o.stdout.contains("site.yaml:21:11: error: studies[1].kind: `sunbathing` is not a known `kind`; use one of: heat-loss, frost"), "{}", o.stdout);
 }
 
 const HEAT_LOSS: &str = "  - id: ID

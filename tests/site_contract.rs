@@ -149,3 +149,20 @@ ground:
         }
     }
 }
+
+/// `--strict` turns a danger-level warning into exit code 3; the bundle is still written
+/// (product.md, commands). The water-main example's main is laid too shallow on purpose.
+#[test]
+fn strict_exits_three_on_danger_and_still_writes_the_bundle() {
+    let out = std::env::temp_dir().join(format!("burrow-strict-{}", std::process::id()));
+    let _ = std::fs::remove_dir_all(&out);
+    let o = Command::new(env!("CARGO_BIN_EXE_burrow"))
+        .args(["run", "--quiet", "--strict", "--out"])
+        .arg(&out)
+        .arg(root().join("site-examples/tarnwick-heights-water-main.yaml"))
+        .output()
+        .unwrap();
+    assert_eq!(o.status.code(), Some(3), "{}", String::from_utf8_lossy(&o.stderr));
+    assert!(String::from_utf8_lossy(&o.stderr).contains("DANGER"));
+    assert!(out.join("report.html").is_file());
+}

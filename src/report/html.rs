@@ -288,6 +288,7 @@ fn studies(h: &mut String, r: &Results, figures: &[Vec<Figure>]) {
         );
         match &s.figures {
             Figures::HeatLoss(hl) => super::heat_loss::section(h, hl),
+            Figures::Frost(f) => super::frost::section(h, f),
         }
         figure_list(h, figs);
         let _ = write!(h, "</section>\n");

@@ -5,6 +5,7 @@
 //! failed run leaves either the previous bundle or nothing, never half of one.
 
 pub mod csv;
+pub mod frost;
 pub mod heat_loss;
 pub mod html;
 pub mod plot;
@@ -50,6 +51,7 @@ pub fn figures(results: &Results) -> Result<ReportFigures, String> {
         .iter()
         .map(|s| match &s.figures {
             Figures::HeatLoss(h) => heat_loss::figures(s, h),
+            Figures::Frost(f) => frost::figures(s, f),
         })
         .collect::<Result<_, _>>()?;
     Ok(ReportFigures { ground, studies })
@@ -64,6 +66,7 @@ fn csv_files(results: &Results) -> Vec<(String, String)> {
     for s in &results.studies {
         match &s.figures {
             Figures::HeatLoss(h) => files.push((format!("{}-monthly.csv", s.id), heat_loss::monthly_csv(h))),
+            Figures::Frost(f) => files.push((format!("{}-degree-days.csv", s.id), frost::degree_days_csv(f))),
         }
     }
     files

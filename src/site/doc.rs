@@ -138,16 +138,20 @@ pub struct LayerDoc {
 /// One study; `kind` says which, and each kind has its own keys.
 #[derive(Debug, Deserialize, JsonSchema)]
 #[serde(tag = "kind", rename_all = "kebab-case")]
-#[schemars(extend("x-planned-kinds" = ["borefield", "frost", "cross-section"]))]
+#[schemars(extend("x-planned-kinds" = ["borefield", "cross-section"]))]
 pub enum StudyDoc {
     /// Heat loss of buried district-heating pipes, insulation sizing, neighbouring utilities.
     HeatLoss(super::kinds::heat_loss::HeatLossDoc),
+    /// Design freezing index, frost depth by Stefan and modified Berggren, and a water main's
+    /// safety.
+    Frost(super::kinds::frost::FrostDoc),
 }
 
 impl StudyDoc {
     pub fn id(&self) -> &str {
         match self {
             StudyDoc::HeatLoss(d) => &d.id,
+            StudyDoc::Frost(d) => &d.id,
         }
     }
 }

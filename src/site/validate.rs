@@ -491,8 +491,23 @@ fn studies(docs: &[StudyDoc], path: &KeyPath, v: &mut Validator) -> Option<Vec<S
 }
 
 fn study(doc: &StudyDoc, path: &KeyPath, v: &mut Validator) -> Option<Study> {
-    use super::kinds::{heat_loss, method};
+    use super::kinds::{frost, heat_loss, method};
     match doc {
+        StudyDoc::Frost(d) => {
+            let m = method(
+                d.method,
+                Method::Analytic,
+                &frost::METHODS,
+                &path.key("method"),
+                v,
+            );
+            let study = frost::validate(d, path, v);
+            Some(Study {
+                id: d.id.clone(),
+                method: m?,
+                kind: StudyKind::Frost(study?),
+            })
+        }
         StudyDoc::HeatLoss(d) => {
             let m = method(
                 d.method,

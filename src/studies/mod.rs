@@ -4,6 +4,7 @@
 //! Kinds the product defines but this version cannot run are listed in the schema
 //! (`x-planned-kinds`) and refused by the site check with a "not supported yet" message.
 
+pub mod frost;
 pub mod heat_loss;
 
 use crate::ground::profile::Undisturbed;
@@ -17,6 +18,10 @@ pub fn run(study: &Study, site: &Site, ground: &Undisturbed) -> Result<(StudyRes
         StudyKind::HeatLoss(h) => {
             let (r, w) = heat_loss::run(&study.id, h, site, ground)?;
             (Figures::HeatLoss(r), w)
+        }
+        StudyKind::Frost(f) => {
+            let (r, w) = frost::run(&study.id, f, site, ground)?;
+            (Figures::Frost(r), w)
         }
     };
     Ok((
@@ -37,6 +42,7 @@ pub fn deepest_point_m(site: &Site) -> f64 {
         .map(|s| match &s.kind {
             StudyKind::CrossSection(c) => c.depth_m,
             StudyKind::HeatLoss(h) => h.pipes.iter().map(|p| 2.0 * p.depth_m).fold(0.0, f64::max),
+            StudyKind::Frost(f) => f.pipe.as_ref().map_or(0.0, |p| 2.0 * p.depth_m),
         })
         .fold(0.0, f64::max)
 }

@@ -2,6 +2,7 @@
 //! validation into the model. One file per kind.
 
 pub mod cross_section;
+pub mod frost;
 pub mod heat_loss;
 
 use crate::model::Method;

@@ -1,0 +1,411 @@
+//! `kind: frost`: design freezing index, frost depth by Stefan and the modified Berggren
+//! equation (TM 5-852-6), and whether a water main at its cover stays frost-free.
+
+use crate::calendar::civil_from_days;
+use crate::calendar::days_from_civil;
+use crate::ground::climate::SurfaceYear;
+use crate::ground::profile::Undisturbed;
+use crate::model::{Climate, DAY_S, Frost, NFactors, Pipe, PipeDrive, Site};
+use crate::physics::buried_pipe::{GroundForm, Soil, ground::ground_resistance_m_k_per_w};
+use crate::physics::frost as fp;
+use crate::results::*;
+
+/// Volumetric heat capacity of water near 0 °C, J/(m3 K): 999.8 kg/m3 × 4219 J/(kg K) (IAPWS-95
+/// at 0.01 °C, from memory).
+const WATER_C_J_M3_K: f64 = 4.218e6;
+/// Latent heat of freezing per m3 of water: 1000 kg/m3 × 333.55 kJ/kg (IAPWS).
+const WATER_LATENT_J_M3: f64 = 333.55e6;
+/// Day of the year (0-based) of 1 July in a 365-day year: the freezing season's start.
+const JULY_1: usize = 181;
+
+pub fn run(
+    id: &str,
+    f: &Frost,
+    site: &Site,
+    ground: &Undisturbed,
+) -> Result<(FrostResult, Vec<Warning>), String> {
+    let mut warnings = Vec::new();
+    let warn = |level, code: &str, message: String| Warning {
+        study: Some(id.to_string()),
+        level,
+        code: code.into(),
+        message,
+    };
+    let climate = with_surface_preset(&site.climate, f, id, &mut warnings)?;
+    let year = SurfaceYear::from_climate(&climate);
+    let daily: Vec<f64> = (0..365)
+        .map(|d| year.surface_c((d as f64 + 0.5) * DAY_S))
+        .collect();
+    let season: Vec<f64> = (0..365).map(|d| daily[(d + JULY_1) % 365]).collect();
+    let n_f = air_n_factors(&climate).map_or(1.0, |n| n.freezing);
+
+    let (surface_index, air_index, basis, seasons) = design_index(f, &climate, &season, n_f)?;
+    if matches!(climate, Climate::MonthlyAir { .. }) && f.design_air_freezing_index_c_days.is_none() {
+        warnings.push(warn(
+            Level::Caution,
+            "frost.monthly_means",
+            "the freezing index comes from monthly mean temperatures, which understate it (cold spells average out); use a daily series or a design index from a local table for final design".into(),
+        ));
+    }
+    let mean_annual = daily.iter().sum::<f64>() / 365.0;
+    let season_days = daily.iter().filter(|t| **t < 0.0).count() as f64;
+    let layers = frost_layers(site);
+    let stefan = fp::layered_stefan_depth_m(&layers, fp::c_days_to_c_s(surface_index))?;
+    let berggren = if surface_index > 0.0 && season_days > 0.0 {
+        match fp::modified_berggren_depth(
+            &layers,
+            &fp::FreezingSeason {
+                surface_index_c_s: fp::c_days_to_c_s(surface_index),
+                length_s: season_days * DAY_S,
+                mean_annual_c: mean_annual,
+                freezing_point_c: 0.0,
+            },
+        ) {
+            Ok(b) => Some(b),
+            Err(e) => {
+                warnings.push(warn(Level::Caution, "frost.berggren_not_applicable", format!("the modified Berggren equation does not apply here ({e}); the frost depth falls back on Stefan's formula")));
+                None
+            }
+        }
+    } else {
+        None
+    };
+    let governing = berggren.map_or(stefan, |b| b.depth_m);
+
+    let mut result = FrostResult {
+        design_freezing_index_c_days: surface_index,
+        air_freezing_index_c_days: air_index,
+        design_index_basis: basis,
+        frost_depth_m: FrostDepths {
+            stefan,
+            berggren: berggren.map(|b| b.depth_m),
+            numerical: None,
+        },
+        max_frost_depth_m: governing,
+        mean_annual_surface_c: mean_annual,
+        freezing_season_days: season_days,
+        berggren: berggren.map(|b| BerggrenFigures {
+            lambda: b.lambda,
+            thermal_ratio: b.alpha,
+            fusion_parameter: b.mu,
+        }),
+        seasons,
+        frost_reaches_pipe: None,
+        pipe_crown_depth_m: None,
+        pipe_min_temperature_c: None,
+        water_min_temperature_c: None,
+        required_cover_m: None,
+        margin_m: f.margin_m,
+        stagnant: None,
+        cumulative_degree_days: fp::cumulative_degree_days(&season)?,
+        lowest_profile: (0..=100)
+            .map(|i| {
+                let z = i as f64 * 0.04;
+                (z, ground.envelope_at(z).1)
+            })
+            .collect(),
+    };
+    if let Some(pipe) = &f.pipe {
+        pipe_checks(id, f, pipe, site, ground, &mut result, &mut warnings)?;
+    }
+    Ok((result, warnings))
+}
+
+/// The climate with the study's surface preset's n-factors in place of its own (air climates
+/// only; a preset on a surface-temperature climate is ignored with a caution).
+fn with_surface_preset(
+    climate: &Climate,
+    f: &Frost,
+    id: &str,
+    warnings: &mut Vec<Warning>,
+) -> Result<Climate, String> {
+    if let Climate::Constant { .. } = climate {
+        return Err(format!(
+            "study {id}: a frost study needs a climate with seasons (annual-wave, monthly-air or series), not a constant surface temperature"
+        ));
+    }
+    let Some(key) = &f.surface_preset else {
+        return Ok(climate.clone());
+    };
+    let p = fp::n_factor_preset(key)?;
+    let n = NFactors {
+        freezing: p.freezing,
+        thawing: p.thawing.unwrap_or(1.0),
+    };
+    Ok(match climate {
+        Climate::MonthlyAir { air_c, .. } => Climate::MonthlyAir {
+            air_c: *air_c,
+            n_factors: n,
+        },
+        Climate::Series(s) => {
+            let mut s = s.clone();
+            s.n_factors = n;
+            Climate::Series(s)
+        }
+        other => {
+            warnings.push(Warning {
+                study: Some(id.to_string()),
+                level: Level::Caution,
+                code: "frost.surface_preset_ignored".into(),
+                message: format!("the surface type `{key}` was ignored: the climate already gives surface temperatures, which need no n-factors"),
+            });
+            other.clone()
+        }
+    })
+}
+
+fn air_n_factors(climate: &Climate) -> Option<NFactors> {
+    match climate {
+        Climate::MonthlyAir { n_factors, .. } => Some(*n_factors),
+        Climate::Series(s) => Some(s.n_factors),
+        _ => None,
+    }
+}
+
+/// (surface index, air index, how it was found, seasonal indices of a series), °C·days.
+fn design_index(
+    f: &Frost,
+    climate: &Climate,
+    season: &[f64],
+    n_f: f64,
+) -> Result<(f64, Option<f64>, String, Vec<SeasonFigure>), String> {
+    let air = air_n_factors(climate).is_some();
+    if let Some(air_index) = f.design_air_freezing_index_c_days {
+        return Ok((
+            n_f * air_index,
+            Some(air_index),
+            format!("design air freezing index from the site file × freezing n-factor {n_f}"),
+            Vec::new(),
+        ));
+    }
+    match climate {
+        Climate::AnnualWave {
+            mean_c, amplitude_k, ..
+        } => Ok((
+            fp::sinusoid_freezing_index_c_days(*mean_c, *amplitude_k, 365.0)?,
+            None,
+            "closed form of the annual surface wave, (P/π)(A sin θ − m θ), θ = acos(m/A)".into(),
+            Vec::new(),
+        )),
+        Climate::MonthlyAir { air_c, .. } => {
+            let air_year = SurfaceYear::from_climate(&Climate::MonthlyAir {
+                air_c: *air_c,
+                n_factors: NFactors {
+                    freezing: 1.0,
+                    thawing: 1.0,
+                },
+            });
+            let air_season: Vec<f64> = (0..365)
+                .map(|d| air_year.air_c(((d + JULY_1) % 365) as f64 * DAY_S + 0.5 * DAY_S))
+                .collect();
+            Ok((
+                fp::freezing_index_c_days(season)?,
+                Some(fp::freezing_index_c_days(&air_season)?),
+                "cumulative degree-day curve of the monthly means interpolated to days (TM 5-852-6)".into(),
+                Vec::new(),
+            ))
+        }
+        Climate::Series(s) => series_index(f, s, air),
+        Climate::Constant { .. } => Err("a frost study needs a climate with seasons".into()),
+    }
+}
+
+fn series_index(
+    f: &Frost,
+    s: &crate::model::AirSeries,
+    _air: bool,
+) -> Result<(f64, Option<f64>, String, Vec<SeasonFigure>), String> {
+    let per_day = (DAY_S / s.step_s).round().max(1.0) as usize;
+    let daily_air: Vec<f64> = s
+        .air_c
+        .chunks(per_day)
+        .filter(|c| c.len() == per_day)
+        .map(|c| c.iter().sum::<f64>() / per_day as f64)
+        .collect();
+    let surface_of = |t: f64| crate::ground::climate::apply_n_factors(t, s.n_factors);
+    let daily_surface: Vec<f64> = s
+        .air_c
+        .chunks(per_day)
+        .filter(|c| c.len() == per_day)
+        .map(|c| c.iter().map(|t| surface_of(*t)).sum::<f64>() / per_day as f64)
+        .collect();
+    let first = days_from_civil(s.start_year, 1, 1) + s.start_day_of_year.floor() as i64 - 1;
+    let (y, m, d) = civil_from_days(first);
+    let record = |v: &[f64]| -> Result<Vec<fp::SeasonIndices>, String> {
+        fp::seasonal_indices(
+            &fp::DailyRecord {
+                first_year: y as i32,
+                first_month: m,
+                first_day: d,
+                daily_mean_c: v,
+            },
+            fp::FREEZING_SEASON_START,
+        )
+    };
+    let surface = record(&daily_surface)?;
+    let air = record(&daily_air)?;
+    if surface.is_empty() {
+        return Err(format!(
+            "the temperature file `{}` holds no complete freezing season (1 July to 30 June); give at least one",
+            s.source
+        ));
+    }
+    let seasons: Vec<SeasonFigure> = surface
+        .iter()
+        .map(|x| SeasonFigure {
+            start_year: x.start_year,
+            freezing_index_c_days: x.freezing_index_c_days,
+        })
+        .collect();
+    let pick = |v: &[fp::SeasonIndices]| -> Result<(f64, String), String> {
+        let idx: Vec<f64> = v.iter().map(|x| x.freezing_index_c_days).collect();
+        match f.return_period_years {
+            Some(t) => Ok((
+                fp::fit_gumbel(&idx, fp::GumbelMethod::MaximumLikelihood)?.return_value_c_days(t)?,
+                format!(
+                    "Gumbel (maximum likelihood) {t}-year value of {} winters",
+                    idx.len()
+                ),
+            )),
+            None if idx.len() >= 3 => Ok((
+                fp::design_index_three_coldest(&idx)?,
+                format!("mean of the three coldest of {} winters (TM 5-852-6)", idx.len()),
+            )),
+            None => Ok((
+                idx.iter().cloned().fold(0.0, f64::max),
+                format!("the coldest of {} winter(s); TM 5-852-6 asks for 30", idx.len()),
+            )),
+        }
+    };
+    let (surface_index, basis) = pick(&surface)?;
+    let (air_index, _) = pick(&air)?;
+    Ok((surface_index, Some(air_index), basis, seasons))
+}
+
+fn frost_layers(site: &Site) -> Vec<fp::FrostLayer> {
+    site.ground
+        .layers
+        .iter()
+        .map(|l| fp::FrostLayer {
+            thickness_m: l.thickness_m.unwrap_or(f64::INFINITY),
+            k_frozen_w_mk: l.frozen_conductivity_w_m_k,
+            k_unfrozen_w_mk: l.conductivity_w_m_k,
+            c_frozen_j_m3k: l.frozen_heat_capacity_j_m3_k,
+            c_unfrozen_j_m3k: l.heat_capacity_j_m3_k,
+            latent_j_m3: l.latent_heat_j_m3,
+        })
+        .collect()
+}
+
+/// Crown against frost, coldest wall and water, stagnant freezing, required cover.
+fn pipe_checks(
+    id: &str,
+    f: &Frost,
+    pipe: &Pipe,
+    site: &Site,
+    ground: &Undisturbed,
+    r: &mut FrostResult,
+    warnings: &mut Vec<Warning>,
+) -> Result<(), String> {
+    let crown = pipe.cover_m();
+    let reaches = r.max_frost_depth_m >= crown;
+    r.pipe_crown_depth_m = Some(crown);
+    r.frost_reaches_pipe = Some(reaches);
+    let cover = fp::required_cover(r.max_frost_depth_m, pipe.outer_diameter_m, f.margin_m)?;
+    r.required_cover_m = Some(cover.cover_m);
+    if reaches {
+        warnings.push(Warning {
+            study: Some(id.to_string()),
+            level: Level::Danger,
+            code: "frost.at_pipe".into(),
+            message: format!(
+                "frost reaches {:.2} m in the design winter, below the crown of `{}` at {:.2} m: the water can freeze; give it at least {:.2} m of cover, insulate it, or keep the water moving",
+                r.max_frost_depth_m, pipe.id, crown, cover.cover_m
+            ),
+        });
+    }
+    // Coldest pipe wall: the undisturbed ground at the pipe's depth, day by day, with the water
+    // (or the heat rate) through the wall and ground resistances in series.
+    let k = site.ground.layer_at(pipe.depth_m).conductivity_w_m_k;
+    let soil = Soil::new(k, 0.0)?;
+    let r_ground =
+        ground_resistance_m_k_per_w(pipe.depth_m, pipe.outer_radius_m(), &soil, GroundForm::Exact)?;
+    let r_wall: f64 = wall_resistance(pipe)?;
+    let mut wall_min = f64::INFINITY;
+    let mut ground_min = f64::INFINITY;
+    let mut water_min = f64::INFINITY;
+    for d in 0..365 {
+        let t_g = ground.at(pipe.depth_m, (d as f64 + 0.5) * DAY_S);
+        let month = ((d as f64 + 0.5) / (365.0 / 12.0)) as usize;
+        let t_wall = match &pipe.drive {
+            PipeDrive::FluidTemperature { monthly_c } => {
+                water_min = water_min.min(monthly_c[month.min(11)]);
+                t_g + (monthly_c[month.min(11)] - t_g) * r_ground / (r_wall + r_ground)
+            }
+            PipeDrive::HeatToGround { w_per_m } => t_g + w_per_m * r_ground,
+        };
+        wall_min = wall_min.min(t_wall);
+        ground_min = ground_min.min(t_g);
+    }
+    r.pipe_min_temperature_c = Some(wall_min);
+    r.water_min_temperature_c = water_min.is_finite().then_some(water_min);
+    if let Some(duration) = f.stagnant_s {
+        let initial = if water_min.is_finite() {
+            water_min
+        } else {
+            wall_min.max(0.5)
+        };
+        let stagnant = fp::StagnantPipe {
+            inner_diameter_m: 2.0 * pipe.inner_radius_m(),
+            wall_resistance_m_k_per_w: r_wall,
+            ground_resistance_m_k_per_w: r_ground,
+            water_heat_capacity_j_m3k: WATER_C_J_M3_K,
+            water_latent_j_m3: WATER_LATENT_J_M3,
+            freezing_point_c: 0.0,
+        };
+        let (first_ice, ice) = if ground_min < 0.0 && initial > 0.0 {
+            (
+                stagnant.time_to_first_ice_s(initial, ground_min)?,
+                stagnant.ice_fraction_after(initial, ground_min, duration)?,
+            )
+        } else {
+            (None, 0.0)
+        };
+        let freezes = first_ice.is_some_and(|t| t <= duration);
+        if freezes {
+            warnings.push(Warning {
+                study: Some(id.to_string()),
+                level: Level::Danger,
+                code: "frost.stagnant_freeze".into(),
+                message: format!(
+                    "standing water in `{}` starts to freeze after {:.0} h at the coldest ground temperature ({:.1} °C), within the {:.0} h without flow (ice fraction {:.0} %); keep a bleed flow, insulate or lay deeper",
+                    pipe.id,
+                    first_ice.unwrap_or(0.0) / 3600.0,
+                    ground_min,
+                    duration / 3600.0,
+                    ice * 100.0
+                ),
+            });
+        }
+        r.stagnant = Some(StagnantFigures {
+            duration_h: duration / 3600.0,
+            time_to_first_ice_h: first_ice.map(|t| t / 3600.0),
+            ice_fraction: ice,
+            ground_temperature_c: ground_min,
+            initial_water_temperature_c: initial,
+        });
+    }
+    Ok(())
+}
+
+fn wall_resistance(pipe: &Pipe) -> Result<f64, String> {
+    let layers: Vec<crate::physics::buried_pipe::wall::WallLayer> = pipe
+        .layers
+        .iter()
+        .map(|l| crate::physics::buried_pipe::wall::WallLayer::new(l.thickness_m, l.conductivity_w_m_k))
+        .collect();
+    if layers.is_empty() {
+        return Ok(0.0);
+    }
+    crate::physics::buried_pipe::wall::wall_resistance_m_k_per_w(pipe.inner_radius_m(), &layers)
+}

@@ -1,0 +1,151 @@
+//! `kind: frost` through the whole pipeline (site text → results), against closed forms and
+//! hand calculations.
+
+use burrow::results::{Figures, FrostResult, Level, Results};
+use burrow::site;
+use std::f64::consts::PI;
+use std::path::Path;
+
+const K_F: f64 = 2.0;
+const W: f64 = 0.25; // volumetric water content
+const L: f64 = W * 1000.0 * 333.55e3; // J/m3 (IAPWS latent heat)
+
+fn site_text(climate: &str, study: &str) -> String {
+    format!(
+        "site: {{name: frost check}}
+climate: {climate}
+ground:
+  layers:
+    - {{name: silt, conductivity: 1.5, frozen_conductivity: {K_F}, heat_capacity: 2.4e6, frozen_heat_capacity: 1.9e6, water_content: {W}}}
+studies:
+{study}"
+    )
+}
+
+fn run_in(text: &str, dir: &Path) -> Results {
+    let loaded = site::load_text(text, "t.yaml", dir).unwrap_or_else(|e| panic!("{e:#?}"));
+    burrow::compute(&loaded, "t.yaml", b"", &burrow::Silent).unwrap()
+}
+
+fn frost(r: &Results) -> &FrostResult {
+    match &r.studies[0].figures {
+        Figures::Frost(f) => f,
+        _ => panic!("not a frost study"),
+    }
+}
+
+const WAVE: &str = "{model: annual-wave, mean: 3 °C, amplitude: 12 K, coldest_day: 20}";
+
+fn study(depth: f64) -> String {
+    format!(
+        "  - id: main
+    kind: frost
+    pipe: {{id: m, depth: {depth} m, outer_diameter: 160 mm, layers: [{{name: pe, thickness: 9.5 mm, conductivity: 0.4}}], fluid: {{temperature: 4 °C}}}}
+"
+    )
+}
+
+/// Freezing index of a sinusoidal surface temperature m − A cos ωt over one year:
+/// F = (P/π)(A sin θ − m θ), θ = acos(m/A) (TM 5-852-6; integral of the negative part), and
+/// Stefan's depth X = sqrt(2 k_f F / L) (TM 5-852-6, ch. 3).
+#[test]
+fn a_wave_climate_gives_the_closed_form_index_and_stefan_depth() {
+    let r = run_in(&site_text(WAVE, &study(2.0)), Path::new("."));
+    let f = frost(&r);
+    let theta = (3.0_f64 / 12.0).acos();
+    let index = 365.0 / PI * (12.0 * theta.sin() - 3.0 * theta);
+    assert!(
+        (f.design_freezing_index_c_days - index).abs() < 1e-6 * index,
+        "{} vs {index}",
+        f.design_freezing_index_c_days
+    );
+    let stefan = (2.0 * K_F * index * 86_400.0 / L).sqrt();
+    assert!(
+        (f.frost_depth_m.stefan - stefan).abs() < 1e-6,
+        "{} vs {stefan}",
+        f.frost_depth_m.stefan
+    );
+    // The modified Berggren depth lies below Stefan's upper bound (λ < 1) and governs.
+    let b = f.frost_depth_m.berggren.unwrap();
+    assert!(b < stefan && f.max_frost_depth_m == b);
+}
+
+#[test]
+fn a_main_below_the_frost_is_safe_and_one_above_is_flagged() {
+    let deep = run_in(&site_text(WAVE, &study(2.5)), Path::new("."));
+    assert_eq!(frost(&deep).frost_reaches_pipe, Some(false));
+    assert!(!deep.warnings.iter().any(|w| w.level == Level::Danger));
+    let shallow = run_in(&site_text(WAVE, &study(0.8)), Path::new("."));
+    assert_eq!(frost(&shallow).frost_reaches_pipe, Some(true));
+    assert!(
+        shallow
+            .warnings
+            .iter()
+            .any(|w| w.code == "frost.at_pipe" && w.level == Level::Danger)
+    );
+}
+
+/// The required cover lies between the frost depth and the frost depth plus the margin (here it
+/// is exactly their sum: the crown sits the margin below the frost).
+#[test]
+fn the_required_cover_is_the_frost_depth_plus_the_margin() {
+    let r = run_in(
+        &site_text(
+            WAVE,
+            &study(1.0).replace("kind: frost", "kind: frost\n    margin: 0.3 m"),
+        ),
+        Path::new("."),
+    );
+    let f = frost(&r);
+    let cover = f.required_cover_m.unwrap();
+    assert!(cover >= f.max_frost_depth_m && cover <= f.max_frost_depth_m + 0.3 + 1e-12);
+    assert!((cover - f.max_frost_depth_m - 0.3).abs() < 1e-12);
+}
+
+/// A design air index from a local table becomes a surface index through the freezing n-factor
+/// (TM 5-852-6: surface index = n_f × air index).
+#[test]
+fn a_design_air_index_is_scaled_by_the_freezing_n_factor() {
+    let climate = "{model: monthly-air, air: [-8, -6, -1, 5, 11, 15, 17, 16, 12, 6, 0, -5], n_factor_freezing: 0.7, n_factor_thawing: 1.2}";
+    let s = study(2.0).replace("kind: frost", "kind: frost\n    design_freezing_index: 1200 °C·d");
+    let r = run_in(&site_text(climate, &s), Path::new("."));
+    let f = frost(&r);
+    assert!((f.design_freezing_index_c_days - 840.0).abs() < 1e-9);
+    assert_eq!(f.air_freezing_index_c_days, Some(1200.0));
+}
+
+/// Four winters of a daily series, each a block of constant frost: the seasonal index of a block
+/// of n days at −a °C is n·a; the design index is the mean of the three coldest (TM 5-852-6).
+#[test]
+fn a_series_design_index_is_the_mean_of_the_three_coldest_winters() {
+    let dir = std::env::temp_dir().join(format!("burrow-frost-series-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let mut csv = String::from("date,air\n");
+    let start = burrow::calendar::days_from_civil(2030, 7, 1);
+    let frosts = [-4.0, -9.0, -6.0, -12.0];
+    let mut day = start;
+    for a in frosts {
+        for i in 0..365 {
+            let (y, m, d) = burrow::calendar::civil_from_days(day);
+            let t = if (150..210).contains(&i) { a } else { 5.0 };
+            csv.push_str(&format!("{y:04}-{m:02}-{d:02},{t}\n"));
+            day += 1;
+        }
+    }
+    // One more day so that the last season is complete even across the leap day of 2032.
+    for _ in 0..2 {
+        let (y, m, d) = burrow::calendar::civil_from_days(day);
+        csv.push_str(&format!("{y:04}-{m:02}-{d:02},5\n"));
+        day += 1;
+    }
+    std::fs::write(dir.join("mast.csv"), csv).unwrap();
+    let r = run_in(&site_text("{model: series, file: mast.csv}", &study(2.0)), &dir);
+    let f = frost(&r);
+    let want = 60.0 * (12.0 + 9.0 + 6.0) / 3.0;
+    assert!(f.seasons.len() >= 3, "{:?}", f.seasons);
+    assert!(
+        (f.design_freezing_index_c_days - want).abs() < 1e-9,
+        "{} vs {want}",
+        f.design_freezing_index_c_days
+    );
+}
