@@ -72,6 +72,7 @@ pub struct StudyResult {
 pub enum Figures {
     HeatLoss(HeatLossResult),
     Frost(FrostResult),
+    CrossSection(CrossSectionResult),
 }
 
 /// A 2-D temperature field on cell centres, for plots (not serialised into results.json).
@@ -271,4 +272,49 @@ pub struct StagnantFigures {
     /// Ground temperature at the pipe and starting water temperature assumed, °C.
     pub ground_temperature_c: f64,
     pub initial_water_temperature_c: f64,
+}
+
+/// `kind: cross-section` (contract in issue "Transient 2-D conduction engine").
+#[derive(Clone, Debug, Serialize)]
+pub struct CrossSectionResult {
+    pub cells: usize,
+    /// Heat from each pipe to the ground, positive.
+    pub pipes: Vec<SectionPipeFigures>,
+    pub probes: Vec<ProbeFigures>,
+    /// Deepest 0 °C isotherm at the section's edge column (away from the pipes), m.
+    pub max_frost_depth_m: Option<f64>,
+    pub final_frost_depth_m: Option<f64>,
+    /// |heat in − heat out − Δstored| / throughput over the run.
+    pub energy_balance_relative_error: f64,
+    pub steady: bool,
+    #[serde(skip)]
+    pub series: SectionSeries,
+    #[serde(skip)]
+    pub fields: Vec<Field>,
+}
+
+#[derive(Clone, Debug, Serialize)]
+pub struct SectionPipeFigures {
+    pub id: String,
+    pub mean_heat_rate_w_per_m: f64,
+    pub final_heat_rate_w_per_m: f64,
+}
+
+#[derive(Clone, Debug, Serialize)]
+pub struct ProbeFigures {
+    pub id: String,
+    pub min_c: f64,
+    pub max_c: f64,
+    pub final_c: f64,
+}
+
+/// Time series of a transient section, for the report and CSV.
+#[derive(Clone, Debug, Default)]
+pub struct SectionSeries {
+    pub times_d: Vec<f64>,
+    pub pipe_ids: Vec<String>,
+    pub pipe_heat_w_per_m: Vec<Vec<f64>>,
+    pub probe_ids: Vec<String>,
+    pub probes_c: Vec<Vec<f64>>,
+    pub frost_depth_m: Vec<f64>,
 }

@@ -404,8 +404,8 @@ fn unsupported_and_unknown_study_kinds_are_refused() {
     );
     let o = try_site("kinds", text.as_bytes());
     assert_eq!(o.code, 1);
-    assert!(o.stdout.contains("site.yaml:19:11: error: studies[0].kind: the kind `borefield` is not supported yet; use one of: heat-loss, frost"), "{}", o.stdout);
-    assert!(o.stdout.contains("site.yaml:21:11: error: studies[1].kind: `sunbathing` is not a known `kind`; use one of: heat-loss, frost"), "{}", o.stdout);
+    assert!(o.stdout.contains("site.yaml:19:11: error: studies[0].kind: the kind `borefield` is not supported yet; use one of: heat-loss, cross-section, frost"), "{}", o.stdout);
+    assert!(o.stdout.contains("site.yaml:21:11: error: studies[1].kind: `sunbathing` is not a known `kind`; use one of: heat-loss, cross-section, frost"), "{}", o.stdout);
 }
 
 const HEAT_LOSS: &str = "  - id: ID

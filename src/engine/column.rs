@@ -57,9 +57,8 @@
 
 use crate::physics::annual_wave::{AnnualWave, DAY_S, YEAR_S, damping_depth_m};
 
-/// Default width (K) of the freezing range below 0 °C. Common practice, no source: enthalpy
-/// schemes spread the latent heat over 0.5–1 K so that a cell freezes over several steps.
-pub const DEFAULT_FREEZING_INTERVAL_K: f64 = 0.5;
+pub use crate::engine::material::DEFAULT_FREEZING_INTERVAL_K;
+use crate::engine::material::Material;
 
 /// Days in the model year; the periodic output has one profile per day.
 pub const DAYS_PER_YEAR: usize = 365;
@@ -601,105 +600,16 @@ fn report(
     }
 }
 
-/// The three linear pieces of the enthalpy curve H(T).
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-enum Piece {
-    Frozen,
-    Freezing,
-    Unfrozen,
-}
-
-/// Soil properties of one cell as functions of temperature.
-#[derive(Debug, Clone, Copy)]
-struct Material {
-    k_unfrozen: f64,
-    k_frozen: f64,
-    c_unfrozen: f64,
-    c_frozen: f64,
-    /// Sensible capacity inside the freezing range (mean of frozen and unfrozen).
-    c_mushy: f64,
-    latent: f64,
-    interval: f64,
-}
-
-impl Material {
-    fn from_layer(l: &ColumnLayer) -> Self {
-        Self {
-            k_unfrozen: l.conductivity,
-            k_frozen: l.frozen_conductivity,
-            c_unfrozen: l.heat_capacity,
-            c_frozen: l.frozen_heat_capacity,
-            c_mushy: 0.5 * (l.heat_capacity + l.frozen_heat_capacity),
-            latent: l.latent_heat_j_m3,
-            interval: l.freezing_interval_k,
-        }
-    }
-
-    fn is_linear(&self) -> bool {
-        self.latent == 0.0 && self.k_unfrozen == self.k_frozen && self.c_unfrozen == self.c_frozen
-    }
-
-    /// Liquid fraction: 1 above 0 °C, 0 below −interval, linear between.
-    fn liquid_fraction(&self, t_c: f64) -> f64 {
-        ((t_c + self.interval) / self.interval).clamp(0.0, 1.0)
-    }
-
-    /// Apparent capacity of the freezing range: sensible + latent spread over it.
-    fn c_apparent_mushy(&self) -> f64 {
-        self.c_mushy + self.latent / self.interval
-    }
-
-    /// Enthalpy at full freezing (T = −interval), J/m³; H = 0 at 0 °C unfrozen.
-    fn h_solidus(&self) -> f64 {
-        -self.interval * self.c_apparent_mushy()
-    }
-
-    /// Volumetric enthalpy H(T), J/m³, zero at 0 °C with all water liquid.
-    fn enthalpy_j_m3(&self, t_c: f64) -> f64 {
-        if t_c >= 0.0 {
-            self.c_unfrozen * t_c
-        } else if t_c >= -self.interval {
-            self.c_apparent_mushy() * t_c
-        } else {
-            self.h_solidus() + self.c_frozen * (t_c + self.interval)
-        }
-    }
-
-    /// Exact inverse of [`Self::enthalpy_j_m3`].
-    fn temperature_c(&self, h_j_m3: f64) -> f64 {
-        if h_j_m3 >= 0.0 {
-            h_j_m3 / self.c_unfrozen
-        } else if h_j_m3 >= self.h_solidus() {
-            h_j_m3 / self.c_apparent_mushy()
-        } else {
-            -self.interval + (h_j_m3 - self.h_solidus()) / self.c_frozen
-        }
-    }
-
-    /// The linear piece of H(T) that T lies in (0 °C counts as freezing).
-    fn piece(&self, t_c: f64) -> Piece {
-        if t_c > 0.0 {
-            Piece::Unfrozen
-        } else if t_c >= -self.interval {
-            Piece::Freezing
-        } else {
-            Piece::Frozen
-        }
-    }
-
-    /// dH/dT on the piece T lies in, J/(m³·K).
-    fn capacity(&self, t_c: f64) -> f64 {
-        match self.piece(t_c) {
-            Piece::Unfrozen => self.c_unfrozen,
-            Piece::Freezing => self.c_apparent_mushy(),
-            Piece::Frozen => self.c_frozen,
-        }
-    }
-
-    /// Conductivity, linear in the liquid fraction between frozen and unfrozen.
-    fn conductivity(&self, t_c: f64) -> f64 {
-        self.k_frozen + self.liquid_fraction(t_c) * (self.k_unfrozen - self.k_frozen)
-    }
+/// The shared enthalpy material of a validated layer.
+fn layer_material(l: &ColumnLayer) -> Material {
+    Material::from_parts(
+        l.conductivity,
+        l.frozen_conductivity,
+        l.heat_capacity,
+        l.frozen_heat_capacity,
+        l.latent_heat_j_m3,
+        l.freezing_interval_k,
+    )
 }
 
 /// Cell-centred grid with faces on layer interfaces and on requested depths.
@@ -843,7 +753,7 @@ impl Column {
         let cells: Vec<Material> = grid
             .layer_of_cell
             .iter()
-            .map(|&l| Material::from_layer(&layers[l]))
+            .map(|&l| layer_material(&layers[l]))
             .collect();
         let n = cells.len();
         let h = cells.iter().zip(t_c).map(|(m, &t)| m.enthalpy_j_m3(t)).collect();
@@ -989,11 +899,9 @@ impl Column {
             let mut exact = true;
             for i in 0..n {
                 let m = &self.cells[i];
-                self.h[i] += self.cap[i] * (self.solution[i] - self.t[i]);
-                let t_new = m.temperature_c(self.h[i]);
-                let piece = m.piece(self.t[i]);
-                exact &= self.linear[i]
-                    || (piece == m.piece(t_new) && (piece != Piece::Freezing || m.k_frozen == m.k_unfrozen));
+                let (h_new, t_new) = m.linearised_update(self.h[i], self.t[i], self.solution[i]);
+                self.h[i] = h_new;
+                exact &= self.linear[i] || m.linearisation_exact(self.t[i], t_new);
                 change = change.max((t_new - self.t[i]).abs());
                 self.t[i] = t_new;
             }
@@ -1076,7 +984,7 @@ mod tests {
 
     #[test]
     fn enthalpy_inverse_round_trips_through_all_three_ranges() {
-        let m = Material::from_layer(&ColumnLayer::moist(1.0, 1.2, 2.0, 2.5e6, 1.9e6, 1.0e8));
+        let m = layer_material(&ColumnLayer::moist(1.0, 1.2, 2.0, 2.5e6, 1.9e6, 1.0e8));
         for &t in &[-12.0, -0.5, -0.3, -1e-9, 0.0, 1e-9, 4.0] {
             let back = m.temperature_c(m.enthalpy_j_m3(t));
             assert!((back - t).abs() < 1e-9, "{t} -> {back}");

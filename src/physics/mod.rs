@@ -5,5 +5,6 @@ pub mod annual_wave;
 pub mod borehole;
 pub mod buried_pipe;
 pub mod frost;
+pub mod gfunction;
 pub mod pipe_flow;
 pub mod superposition;

@@ -289,6 +289,7 @@ fn studies(h: &mut String, r: &Results, figures: &[Vec<Figure>]) {
         match &s.figures {
             Figures::HeatLoss(hl) => super::heat_loss::section(h, hl),
             Figures::Frost(f) => super::frost::section(h, f),
+            Figures::CrossSection(c) => super::cross_section::section(h, c),
         }
         figure_list(h, figs);
         let _ = write!(h, "</section>\n");

@@ -4,6 +4,7 @@
 //! The bundle is written into a temporary folder beside the target and renamed into place, so a
 //! failed run leaves either the previous bundle or nothing, never half of one.
 
+pub mod cross_section;
 pub mod csv;
 pub mod frost;
 pub mod heat_loss;
@@ -52,6 +53,7 @@ pub fn figures(results: &Results) -> Result<ReportFigures, String> {
         .map(|s| match &s.figures {
             Figures::HeatLoss(h) => heat_loss::figures(s, h),
             Figures::Frost(f) => frost::figures(s, f),
+            Figures::CrossSection(c) => cross_section::figures(s, c),
         })
         .collect::<Result<_, _>>()?;
     Ok(ReportFigures { ground, studies })
@@ -67,6 +69,9 @@ fn csv_files(results: &Results) -> Vec<(String, String)> {
         match &s.figures {
             Figures::HeatLoss(h) => files.push((format!("{}-monthly.csv", s.id), heat_loss::monthly_csv(h))),
             Figures::Frost(f) => files.push((format!("{}-degree-days.csv", s.id), frost::degree_days_csv(f))),
+            Figures::CrossSection(c) => {
+                files.push((format!("{}-series.csv", s.id), cross_section::series_csv(c)))
+            }
         }
     }
     files

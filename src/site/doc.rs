@@ -138,10 +138,12 @@ pub struct LayerDoc {
 /// One study; `kind` says which, and each kind has its own keys.
 #[derive(Debug, Deserialize, JsonSchema)]
 #[serde(tag = "kind", rename_all = "kebab-case")]
-#[schemars(extend("x-planned-kinds" = ["borefield", "cross-section"]))]
+#[schemars(extend("x-planned-kinds" = ["borefield"]))]
 pub enum StudyDoc {
     /// Heat loss of buried district-heating pipes, insulation sizing, neighbouring utilities.
     HeatLoss(super::kinds::heat_loss::HeatLossDoc),
+    /// A free 2-D cross-section of the ground solved by the finite-volume engine.
+    CrossSection(super::kinds::cross_section::CrossSectionDoc),
     /// Design freezing index, frost depth by Stefan and modified Berggren, and a water main's
     /// safety.
     Frost(super::kinds::frost::FrostDoc),
@@ -152,6 +154,7 @@ impl StudyDoc {
         match self {
             StudyDoc::HeatLoss(d) => &d.id,
             StudyDoc::Frost(d) => &d.id,
+            StudyDoc::CrossSection(d) => &d.id,
         }
     }
 }

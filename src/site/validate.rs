@@ -491,8 +491,23 @@ fn studies(docs: &[StudyDoc], path: &KeyPath, v: &mut Validator) -> Option<Vec<S
 }
 
 fn study(doc: &StudyDoc, path: &KeyPath, v: &mut Validator) -> Option<Study> {
-    use super::kinds::{frost, heat_loss, method};
+    use super::kinds::{cross_section, frost, heat_loss, method};
     match doc {
+        StudyDoc::CrossSection(d) => {
+            let m = method(
+                d.method,
+                Method::Numerical,
+                &[Method::Numerical],
+                &path.key("method"),
+                v,
+            );
+            let section = cross_section::validate(d, path, v);
+            Some(Study {
+                id: d.id.clone(),
+                method: m?,
+                kind: StudyKind::CrossSection(section?),
+            })
+        }
         StudyDoc::Frost(d) => {
             let m = method(
                 d.method,

@@ -4,6 +4,7 @@
 //! Kinds the product defines but this version cannot run are listed in the schema
 //! (`x-planned-kinds`) and refused by the site check with a "not supported yet" message.
 
+pub mod cross_section;
 pub mod frost;
 pub mod heat_loss;
 
@@ -14,7 +15,10 @@ use crate::results::{Figures, StudyResult, Warning};
 /// Runs one study against the site's undisturbed ground.
 pub fn run(study: &Study, site: &Site, ground: &Undisturbed) -> Result<(StudyResult, Vec<Warning>), String> {
     let (figures, warnings) = match &study.kind {
-        StudyKind::CrossSection(_) => return Err("the cross-section engine is not built yet".into()),
+        StudyKind::CrossSection(c) => {
+            let (r, w) = cross_section::run(&study.id, c, site, ground)?;
+            (Figures::CrossSection(r), w)
+        }
         StudyKind::HeatLoss(h) => {
             let (r, w) = heat_loss::run(&study.id, h, site, ground)?;
             (Figures::HeatLoss(r), w)

@@ -1,0 +1,305 @@
+//! `kind: cross-section`: the site's ground with the study's pipes and inclusions, solved by the
+//! 2-D finite-volume engine (transient over a duration, or steady).
+
+use crate::engine::material::Material;
+use crate::engine::section::{
+    self, Drive, GridOptions, Inclusion, Initial, Pipe as EnginePipe, SectionModel, SoilLayer, TimeFunction,
+    TransientOptions,
+};
+use crate::ground::climate::SurfaceYear;
+use crate::ground::profile::Undisturbed;
+use crate::model::{CrossSection, DAY_S, Pipe, PipeDrive, SectionTime, Site, YEAR_S};
+use crate::physics::buried_pipe::wall::{WallLayer, wall_resistance_m_k_per_w};
+use crate::results::*;
+
+/// Largest ratio of neighbouring cells of the grid.
+const GROWTH_RATIO: f64 = 1.15;
+/// Most records kept of a series for the report and CSV (longer runs are thinned evenly).
+const MAX_RECORDS: usize = 3000;
+
+pub fn run(
+    id: &str,
+    s: &CrossSection,
+    site: &Site,
+    ground: &Undisturbed,
+) -> Result<(CrossSectionResult, Vec<Warning>), String> {
+    let surface = SurfaceYear::from_climate(&site.climate);
+    let steady = matches!(s.time, SectionTime::Steady);
+    let model = model(s, site, &surface, steady).map_err(|e| format!("study {id}: {e}"))?;
+    let grid = GridOptions {
+        surface_cell_m: s.cell_min_m,
+        min_cell_m: s.cell_min_m,
+        max_cell_m: s.cell_max_m,
+        growth_ratio: GROWTH_RATIO,
+        cells_across_pipe: 10,
+    };
+    let result = match s.time {
+        SectionTime::Steady => steady_result(s, &model, &grid)?,
+        SectionTime::Transient { duration_s, step_s } => {
+            transient_result(s, site, ground, &model, grid, duration_s, step_s)?
+        }
+    };
+    let mut warnings = Vec::new();
+    if result.energy_balance_relative_error > 1e-4 {
+        warnings.push(Warning {
+            study: Some(id.to_string()),
+            level: Level::Caution,
+            code: "cross_section.energy_balance".into(),
+            message: format!(
+                "the energy balance closes only to {:.1e} of the heat throughput; refine the grid or the step",
+                result.energy_balance_relative_error
+            ),
+        });
+    }
+    Ok((result, warnings))
+}
+
+fn model(s: &CrossSection, site: &Site, surface: &SurfaceYear, steady: bool) -> Result<SectionModel, String> {
+    let layers = site
+        .ground
+        .layers
+        .iter()
+        .map(|l| {
+            Ok(SoilLayer {
+                thickness_m: l.thickness_m.unwrap_or(f64::INFINITY),
+                material: Material::new(
+                    l.conductivity_w_m_k,
+                    l.frozen_conductivity_w_m_k,
+                    l.heat_capacity_j_m3_k,
+                    l.frozen_heat_capacity_j_m3_k,
+                    l.latent_heat_j_m3,
+                    l.freezing_interval_k,
+                )?,
+            })
+        })
+        .collect::<Result<Vec<_>, String>>()?;
+    let surface_c: TimeFunction = if steady {
+        let mean = annual_mean(|t| surface.surface_c(t));
+        Box::new(move |_| mean)
+    } else {
+        let year = surface.clone();
+        Box::new(move |t| year.surface_c(t))
+    };
+    let mut m = SectionModel::new(section::Geometry::Planar, s.width_m, s.depth_m, layers, surface_c);
+    m.surface_resistance_m2_k_w = s.surface_resistance_m2_k_w;
+    m.bottom_flux_w_m2 = site.ground.geothermal_flux_w_m2;
+    m.inclusions = s
+        .inclusions
+        .iter()
+        .map(|b| {
+            Ok(Inclusion {
+                x_min_m: b.x_m - b.width_m / 2.0,
+                x_max_m: b.x_m + b.width_m / 2.0,
+                z_min_m: b.depth_m,
+                z_max_m: b.depth_m + b.height_m,
+                material: Material::dry(b.conductivity_w_m_k, b.heat_capacity_j_m3_k)?,
+            })
+        })
+        .collect::<Result<_, String>>()?;
+    m.pipes = s
+        .pipes
+        .iter()
+        .map(|p| engine_pipe(p, steady))
+        .collect::<Result<_, String>>()?;
+    Ok(m)
+}
+
+/// The engine's view of a pipe: centre, outer radius, the wall layers as one resistance, and its
+/// drive as a function of time (monthly values held over each twelfth of the year).
+pub fn engine_pipe(p: &Pipe, steady: bool) -> Result<EnginePipe, String> {
+    let wall = if p.layers.is_empty() {
+        0.0
+    } else {
+        let layers: Vec<WallLayer> = p
+            .layers
+            .iter()
+            .map(|l| WallLayer::new(l.thickness_m, l.conductivity_w_m_k))
+            .collect();
+        wall_resistance_m_k_per_w(p.inner_radius_m(), &layers)?
+    };
+    let drive = match &p.drive {
+        PipeDrive::FluidTemperature { monthly_c } => {
+            let m = *monthly_c;
+            if steady {
+                let mean = m.iter().sum::<f64>() / 12.0;
+                Drive::FluidTemperature(Box::new(move |_| mean))
+            } else {
+                Drive::FluidTemperature(Box::new(move |t| m[month_of(t)]))
+            }
+        }
+        PipeDrive::HeatToGround { w_per_m } => {
+            let q = *w_per_m;
+            Drive::HeatRate(Box::new(move |_| q))
+        }
+    };
+    Ok(EnginePipe {
+        x_m: p.x_m,
+        z_m: p.depth_m,
+        outer_radius_m: p.outer_radius_m(),
+        wall_resistance_m_k_w: wall,
+        drive,
+    })
+}
+
+/// Month (0–11) of time `t_s` in the periodic year of twelve equal months.
+fn month_of(t_s: f64) -> usize {
+    ((t_s.rem_euclid(YEAR_S) / YEAR_S) * 12.0)
+        .floor()
+        .clamp(0.0, 11.0) as usize
+}
+
+fn annual_mean(f: impl Fn(f64) -> f64) -> f64 {
+    (0..365).map(|d| f((d as f64 + 0.5) * DAY_S)).sum::<f64>() / 365.0
+}
+
+fn steady_result(
+    s: &CrossSection,
+    model: &SectionModel,
+    grid: &GridOptions,
+) -> Result<CrossSectionResult, String> {
+    let sol = section::solve_steady(model, grid, 0.0)?;
+    let field = snapshot_field(&sol.field, "steady state");
+    let probes = s
+        .probes
+        .iter()
+        .map(|p| {
+            let t = sample(&sol.field, p.x_m, p.depth_m);
+            ProbeFigures {
+                id: p.id.clone(),
+                min_c: t,
+                max_c: t,
+                final_c: t,
+            }
+        })
+        .collect();
+    Ok(CrossSectionResult {
+        cells: sol.cells,
+        pipes: s
+            .pipes
+            .iter()
+            .zip(&sol.heat_rate_w_per_m)
+            .map(|(p, q)| SectionPipeFigures {
+                id: p.id.clone(),
+                mean_heat_rate_w_per_m: *q,
+                final_heat_rate_w_per_m: *q,
+            })
+            .collect(),
+        probes,
+        max_frost_depth_m: None,
+        final_frost_depth_m: None,
+        energy_balance_relative_error: sol.energy_balance_relative_error,
+        steady: true,
+        series: SectionSeries::default(),
+        fields: vec![field],
+    })
+}
+
+#[allow(clippy::too_many_arguments)]
+fn transient_result(
+    s: &CrossSection,
+    site: &Site,
+    ground: &Undisturbed,
+    model: &SectionModel,
+    grid: GridOptions,
+    duration_s: f64,
+    step_s: f64,
+) -> Result<CrossSectionResult, String> {
+    let steps = (duration_s / step_s).round().max(1.0) as usize;
+    let initial = match site.ground.initial_temperature_c {
+        Some(t) => Initial::Uniform(t),
+        None => {
+            let g = ground.clone();
+            Initial::Field(Box::new(move |_x, z| g.at(z, 0.0)))
+        }
+    };
+    let mut opts = TransientOptions::new(step_s, steps, initial);
+    opts.grid = grid;
+    opts.probes = s.probes.iter().map(|p| (p.x_m, p.depth_m)).collect();
+    opts.snapshot_times_s = s.snapshots_s.clone();
+    let sol = section::solve_transient(model, &opts)?;
+    let mean = |v: &[f64]| {
+        if v.is_empty() {
+            f64::NAN
+        } else {
+            v.iter().sum::<f64>() / v.len() as f64
+        }
+    };
+    let last = |v: &[f64]| v.last().copied().unwrap_or(f64::NAN);
+    let stride = sol.times_s.len().div_ceil(MAX_RECORDS).max(1);
+    let thin = |v: &[f64]| v.iter().step_by(stride).copied().collect::<Vec<f64>>();
+    let fields = sol
+        .snapshots
+        .iter()
+        .map(|snap| snapshot_field(snap, &format!("day {:.0}", snap.time_s / DAY_S)))
+        .collect();
+    Ok(CrossSectionResult {
+        cells: sol.cells,
+        pipes: s
+            .pipes
+            .iter()
+            .zip(&sol.pipes)
+            .map(|(p, ps)| SectionPipeFigures {
+                id: p.id.clone(),
+                mean_heat_rate_w_per_m: mean(&ps.heat_rate_w_per_m),
+                final_heat_rate_w_per_m: last(&ps.heat_rate_w_per_m),
+            })
+            .collect(),
+        probes: s
+            .probes
+            .iter()
+            .zip(&sol.probes_c)
+            .map(|(p, v)| ProbeFigures {
+                id: p.id.clone(),
+                min_c: v.iter().cloned().fold(f64::INFINITY, f64::min),
+                max_c: v.iter().cloned().fold(f64::NEG_INFINITY, f64::max),
+                final_c: last(v),
+            })
+            .collect(),
+        max_frost_depth_m: Some(sol.frost_depth_m.iter().cloned().fold(0.0, f64::max)),
+        final_frost_depth_m: Some(last(&sol.frost_depth_m)),
+        energy_balance_relative_error: sol.energy_balance_relative_error,
+        steady: false,
+        series: SectionSeries {
+            times_d: thin(&sol.times_s).iter().map(|t| t / DAY_S).collect(),
+            pipe_heat_w_per_m: sol.pipes.iter().map(|p| thin(&p.heat_rate_w_per_m)).collect(),
+            probes_c: sol.probes_c.iter().map(|p| thin(p)).collect(),
+            frost_depth_m: thin(&sol.frost_depth_m),
+            pipe_ids: s.pipes.iter().map(|p| p.id.clone()).collect(),
+            probe_ids: s.probes.iter().map(|p| p.id.clone()).collect(),
+        },
+        fields,
+    })
+}
+
+fn snapshot_field(snap: &section::Snapshot, label: &str) -> Field {
+    let nx = snap.x_m.len();
+    Field {
+        label: label.to_string(),
+        x_m: snap.x_m.clone(),
+        z_m: snap.z_m.clone(),
+        values_c: snap.t_c.chunks(nx).map(<[f64]>::to_vec).collect(),
+    }
+}
+
+/// Bilinear sample of a cell-centre field (nearest edge values outside the centres).
+fn sample(snap: &section::Snapshot, x: f64, z: f64) -> f64 {
+    let locate = |axis: &[f64], v: f64| -> (usize, f64) {
+        let n = axis.len();
+        if n < 2 || v <= axis[0] {
+            return (0, 0.0);
+        }
+        if v >= axis[n - 1] {
+            return (n - 2, 1.0);
+        }
+        let i = axis.partition_point(|a| *a <= v) - 1;
+        (i, (v - axis[i]) / (axis[i + 1] - axis[i]))
+    };
+    let nx = snap.x_m.len();
+    let (i, fx) = locate(&snap.x_m, x);
+    let (j, fz) = locate(&snap.z_m, z);
+    let at = |a: usize, b: usize| snap.t_c[b * nx + a];
+    let top = at(i, j) * (1.0 - fx) + at((i + 1).min(nx - 1), j) * fx;
+    let jb = (j + 1).min(snap.z_m.len() - 1);
+    let bottom = at(i, jb) * (1.0 - fx) + at((i + 1).min(nx - 1), jb) * fx;
+    top * (1.0 - fz) + bottom * fz
+}
