@@ -203,3 +203,25 @@ fn thick_candidates_do_not_make_the_pipes_overlap() {
     let s = heat_loss(&r).sizing.as_ref().unwrap();
     assert!(s.candidates.iter().all(|c| c.heat_loss_w_per_m.is_finite()));
 }
+
+/// The analytic pair against the finite-volume engine's steady solution of the same trench
+/// (independent method: no line sources, the pipes cut out of a grid), within 3 % (issue contract).
+#[test]
+fn a_pair_agrees_with_the_engine_within_three_percent() {
+    let text = site_with(&PAIR.replace("kind: heat-loss", "kind: heat-loss\n    method: both"));
+    let r = run(&text);
+    let h = heat_loss(&r);
+    let c = h.cross_check.as_ref().expect("method both gives a cross-check");
+    for (a, n) in h.pipes.iter().zip(&c.pipes) {
+        let d = (n.heat_loss_w_per_m - a.heat_loss_w_per_m) / a.heat_loss_w_per_m;
+        eprintln!(
+            "{}: analytic {:.3} W/m, numerical {:.3} W/m ({:+.2} %)",
+            a.id,
+            a.heat_loss_w_per_m,
+            n.heat_loss_w_per_m,
+            d * 100.0
+        );
+        assert!(d.abs() < 0.03, "{}: {d}", a.id);
+    }
+    assert!(!r.warnings.iter().any(|w| w.code == "heat_loss.methods_differ"));
+}

@@ -174,6 +174,23 @@ pub fn section(h_out: &mut String, h: &HeatLossResult) {
         "<tr><th>trench</th><th class=\"n\">{:.2} W/m</th><th class=\"n\">{:.1} MWh over {} m</th><th></th></tr>\n</table>\n",
         h.total_heat_loss_w_per_m, h.annual_heat_loss_mwh, h.length_m
     );
+    if let Some(c) = &h.cross_check {
+        let _ = write!(
+            h_out,
+            "<h4>Analytic against numerical</h4>\n<p>The finite-volume engine's steady solution of the same trench (all soil layers resolved, annual-mean temperatures) beside the analytic annual means; largest difference {:.2} %.</p>\n<table>\n<tr><th>pipe</th><th class=\"n\">analytic</th><th class=\"n\">numerical</th></tr>\n",
+            c.max_relative_difference * 100.0
+        );
+        for (p, n) in h.pipes.iter().zip(&c.pipes) {
+            let _ = write!(
+                h_out,
+                "<tr><td>{}</td><td class=\"n\">{:.2} W/m</td><td class=\"n\">{:.2} W/m</td></tr>\n",
+                esc(&p.id),
+                p.heat_loss_w_per_m,
+                n.heat_loss_w_per_m
+            );
+        }
+        let _ = write!(h_out, "</table>\n");
+    }
     if !h.neighbours.is_empty() {
         let _ = write!(
             h_out,

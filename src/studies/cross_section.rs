@@ -54,9 +54,9 @@ pub fn run(
     Ok((result, warnings))
 }
 
-fn model(s: &CrossSection, site: &Site, surface: &SurfaceYear, steady: bool) -> Result<SectionModel, String> {
-    let layers = site
-        .ground
+/// The site's soil layers as the engine's layers.
+pub fn soil_layers(site: &Site) -> Result<Vec<SoilLayer>, String> {
+    site.ground
         .layers
         .iter()
         .map(|l| {
@@ -72,7 +72,11 @@ fn model(s: &CrossSection, site: &Site, surface: &SurfaceYear, steady: bool) -> 
                 )?,
             })
         })
-        .collect::<Result<Vec<_>, String>>()?;
+        .collect()
+}
+
+fn model(s: &CrossSection, site: &Site, surface: &SurfaceYear, steady: bool) -> Result<SectionModel, String> {
+    let layers = soil_layers(site)?;
     let surface_c: TimeFunction = if steady {
         let mean = annual_mean(|t| surface.surface_c(t));
         Box::new(move |_| mean)
@@ -148,7 +152,8 @@ fn month_of(t_s: f64) -> usize {
         .clamp(0.0, 11.0) as usize
 }
 
-fn annual_mean(f: impl Fn(f64) -> f64) -> f64 {
+/// Mean over the 365 days of the periodic year.
+pub fn annual_mean(f: impl Fn(f64) -> f64) -> f64 {
     (0..365).map(|d| f((d as f64 + 0.5) * DAY_S)).sum::<f64>() / 365.0
 }
 

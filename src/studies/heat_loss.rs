@@ -7,7 +7,7 @@
 //! undisturbed ground temperature at the pipe's depth (EN 13941-1 practice).
 
 use crate::ground::profile::Undisturbed;
-use crate::model::{HeatLoss, Pipe, PipeDrive, Site};
+use crate::model::{HeatLoss, Method, Pipe, PipeDrive, Site};
 use crate::physics::buried_pipe::seasonal::{annual_energy_kwh_per_m, monthly_pipe_states};
 use crate::physics::buried_pipe::sizing::{cheapest, present_value_factor};
 use crate::physics::buried_pipe::system::{Drive, PipeSection, temperature_rise_k};
@@ -18,6 +18,9 @@ use crate::results::*;
 /// Layers within twice the pipe depth whose conductivity differs from the one used by more than
 /// this share trigger a caution (the analytic method sees one homogeneous soil).
 const LAYER_CONTRAST: f64 = 0.2;
+
+/// Relative difference between the methods above which a caution is raised (issue contract).
+const CROSS_CHECK_CAUTION: f64 = 0.05;
 
 /// Annual losses of one arrangement of pipes.
 struct Losses {
@@ -38,6 +41,7 @@ impl Losses {
 
 pub fn run(
     id: &str,
+    method: Method,
     study: &HeatLoss,
     site: &Site,
     ground: &Undisturbed,
@@ -81,6 +85,25 @@ pub fn run(
         None => None,
     };
     let field = field(study, ground, &losses, &soil);
+    let cross_check = match method {
+        Method::Both => {
+            let c = numerical_cross_check(study, site, &losses).map_err(|e| format!("study {id}: {e}"))?;
+            if c.max_relative_difference > CROSS_CHECK_CAUTION {
+                warnings.push(Warning {
+                    study: Some(id.to_string()),
+                    level: Level::Caution,
+                    code: "heat_loss.methods_differ".into(),
+                    message: format!(
+                        "the analytic and numerical heat losses differ by {:.1} % (more than {:.0} %); layered soil or closely spaced pipes make the analytic method less exact — prefer the numerical figures",
+                        c.max_relative_difference * 100.0,
+                        CROSS_CHECK_CAUTION * 100.0
+                    ),
+                });
+            }
+            Some(c)
+        }
+        _ => None,
+    };
     Ok((
         HeatLossResult {
             total_heat_loss_w_per_m: losses.total_mean(),
@@ -92,7 +115,7 @@ pub fn run(
             pipes,
             sizing,
             neighbours,
-            cross_check: None,
+            cross_check,
             field: Some(field),
         },
         warnings,
@@ -382,3 +405,59 @@ const MONTHS: [&str; 12] = [
     "November",
     "December",
 ];
+
+/// The engine's steady solution of the same trench under the annual-mean surface and fluid
+/// temperatures, all soil layers resolved. Steady conduction is linear (without freezing), so the
+/// annual mean of the monthly steady losses equals the loss under the annual-mean temperatures.
+fn numerical_cross_check(study: &HeatLoss, site: &Site, losses: &Losses) -> Result<CrossCheck, String> {
+    use crate::engine::section::{self, GridOptions, SectionModel};
+    use crate::studies::cross_section::{annual_mean, engine_pipe, soil_layers};
+    let year = crate::ground::climate::SurfaceYear::from_climate(&site.climate);
+    let mean_surface = annual_mean(|t| year.surface_c(t));
+    let reach = study
+        .pipes
+        .iter()
+        .map(|p| p.x_m.abs() + p.outer_radius_m())
+        .fold(0.0, f64::max);
+    let deepest = study
+        .pipes
+        .iter()
+        .map(|p| p.depth_m + p.outer_radius_m())
+        .fold(0.0, f64::max);
+    let width = 2.0 * (reach + 20.0 * deepest).max(20.0);
+    let depth = (20.0 * deepest).max(20.0);
+    let mut model = SectionModel::new(
+        section::Geometry::Planar,
+        width,
+        depth,
+        soil_layers(site)?,
+        Box::new(move |_| mean_surface),
+    );
+    model.surface_resistance_m2_k_w = study.surface_resistance_m2_k_w;
+    model.bottom_flux_w_m2 = site.ground.geothermal_flux_w_m2;
+    model.pipes = study
+        .pipes
+        .iter()
+        .map(|p| engine_pipe(p, true))
+        .collect::<Result<_, _>>()?;
+    let sol = section::solve_steady(&model, &GridOptions::default(), 0.0)?;
+    let pipes: Vec<CrossCheckPipe> = study
+        .pipes
+        .iter()
+        .zip(&sol.heat_rate_w_per_m)
+        .map(|(p, q)| CrossCheckPipe {
+            id: p.id.clone(),
+            heat_loss_w_per_m: *q,
+        })
+        .collect();
+    let max_relative_difference = pipes
+        .iter()
+        .zip(&losses.mean)
+        .map(|(n, a)| ((n.heat_loss_w_per_m - a) / a).abs())
+        .fold(0.0, f64::max);
+    Ok(CrossCheck {
+        method: "numerical".into(),
+        pipes,
+        max_relative_difference,
+    })
+}

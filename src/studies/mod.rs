@@ -20,7 +20,7 @@ pub fn run(study: &Study, site: &Site, ground: &Undisturbed) -> Result<(StudyRes
             (Figures::CrossSection(r), w)
         }
         StudyKind::HeatLoss(h) => {
-            let (r, w) = heat_loss::run(&study.id, h, site, ground)?;
+            let (r, w) = heat_loss::run(&study.id, study.method, h, site, ground)?;
             (Figures::HeatLoss(r), w)
         }
         StudyKind::Frost(f) => {

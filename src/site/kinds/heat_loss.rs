@@ -14,8 +14,9 @@ use serde::Deserialize;
 /// (`from memory`: 0.0685 m2 K/W).
 pub use crate::physics::buried_pipe::DEFAULT_SURFACE_RESISTANCE_M2_K_PER_W;
 
-/// The methods this kind offers (the numerical cross-check arrives with the engine).
-pub const METHODS: [crate::model::Method; 1] = [crate::model::Method::Analytic];
+/// The methods this kind offers: the analytic figures, alone or with the engine's steady
+/// solution beside them as a cross-check.
+pub const METHODS: [crate::model::Method; 2] = [crate::model::Method::Analytic, crate::model::Method::Both];
 
 /// Heat loss of buried district-heating pipes (a supply/return pair, or any pipes in one trench).
 #[derive(Debug, Deserialize, JsonSchema)]
@@ -24,8 +25,8 @@ pub struct HeatLossDoc {
     /// A unique name for the study, used in the report and in file names (letters, digits, `-`,
     /// `_`, `.`).
     pub id: String,
-    /// `analytic` (line sources with images, the default) or `numerical`/`both` where the
-    /// finite-volume engine is available.
+    /// `analytic` (line sources with images, the default) or `both` (the analytic figures with the
+    /// finite-volume engine's steady solution beside them as a cross-check).
     #[serde(default)]
     pub method: Option<MethodDoc>,
     /// Thermal resistance between the surface temperature and the ground (default 0.0685 m2 K/W,
