@@ -58,9 +58,14 @@
 //!   iteration stops when the linearisation was exact (no cell changed its piece of
 //!   H(T) and none has a temperature-dependent k) or no temperature moved by more
 //!   than the tolerance.
-//! * Linear algebra ([`crate::engine::linear`]): sparse Cholesky (reference) or
-//!   Douglas–Gunn ADI (fast). Both are written in delta form `δ = S(r)`,
-//!   `r = f − K·Tᵐ`.
+//! * Linear algebra ([`crate::engine::linear`]): sparse Cholesky (reference),
+//!   Douglas–Gunn ADI (fast, default without freezing) or preconditioned
+//!   conjugate gradients (default with freezing; the Cholesky result to the
+//!   iteration tolerance). All are written in delta form `δ = S(r)`,
+//!   `r = f − K·Tᵐ`. The wall temperatures of node pipes enter `r` at their last
+//!   iterate and are corrected through the responses, which are recomputed
+//!   whenever the coefficients change; only the cells whose linearisation was not
+//!   exact (and their faces) have their coefficients rebuilt.
 //!
 //! # Invariants
 //!
@@ -77,7 +82,7 @@
 use std::f64::consts::PI;
 
 use crate::engine::grid::{Axis, Grading, Zone};
-use crate::engine::linear::{AdiSolver, CellSolver, Coefficients, DirectSolver};
+use crate::engine::linear::{AdiSolver, CellSolver, Coefficients, DirectSolver, PcgSolver};
 use crate::engine::material::Material;
 
 pub use crate::engine::linear::SolverKind;
@@ -984,6 +989,18 @@ struct Stepper<'m> {
     /// Conductivity and capacity the coefficients were built with.
     k_used: Vec<f64>,
     c_used: Vec<f64>,
+    /// Active cells whose material is not linear (k or C depend on T).
+    nonlinear: Vec<usize>,
+    /// Cells whose k or C may have changed since the coefficients were built.
+    dirty: Vec<usize>,
+    /// Check every non-linear cell (temperatures set outside `apply_update`).
+    check_all: bool,
+    /// Whether each cell is in `nonlinear`.
+    is_nonlinear: Vec<bool>,
+    /// Sum of the pipe-link factors of each cell (link conductance = factor·k).
+    link_factor: Vec<f64>,
+    /// `V/Δt` of active cells (0 elsewhere) at `inverse_dt`.
+    storage: Vec<f64>,
     /// `1/Δt` the coefficients were built with (0 for steady).
     inverse_dt: f64,
     prepared: bool,
@@ -992,6 +1009,17 @@ struct Stepper<'m> {
     h_old: Vec<f64>,
     /// Response of the cells to a unit wall temperature of each node pipe.
     response: Vec<Vec<f64>>,
+    /// Whether `response` belongs to the current solver state.
+    responses_current: bool,
+    /// Set at the start of each step (responses may be refreshed once per step).
+    first_iteration: bool,
+    /// Temperatures at the start of the step and the change over the last step
+    /// (the first guess of an iterative solver), K.
+    t_start: Vec<f64>,
+    guess: Vec<f64>,
+    guess_pending: bool,
+    /// Wall temperature of each pipe in the last iteration, °C.
+    walls_lag: Vec<f64>,
     r: Vec<f64>,
     delta: Vec<f64>,
     work: Vec<f64>,
@@ -1011,6 +1039,12 @@ struct Flows {
 impl<'m> Stepper<'m> {
     fn new(mesh: &'m Mesh, solver: Box<dyn CellSolver>, t: Vec<f64>, bottom_flux_w_m2: f64) -> Self {
         let n = mesh.cells();
+        let mut link_factor = vec![0.0; n];
+        for coupling in &mesh.couplings {
+            for &(c, factor) in &coupling.links {
+                link_factor[c] += factor;
+            }
+        }
         let h = t
             .iter()
             .zip(&mesh.material)
@@ -1022,12 +1056,28 @@ impl<'m> Stepper<'m> {
             coefficients: Coefficients::new(mesh.nx, mesh.nz),
             k_used: vec![f64::NAN; n],
             c_used: vec![f64::NAN; n],
+            nonlinear: (0..n)
+                .filter(|&c| mesh.active[c] && !mesh.material[c].is_linear())
+                .collect(),
+            dirty: Vec::new(),
+            check_all: true,
+            is_nonlinear: (0..n)
+                .map(|c| mesh.active[c] && !mesh.material[c].is_linear())
+                .collect(),
+            link_factor,
+            storage: vec![0.0; n],
             inverse_dt: f64::NAN,
             prepared: false,
             h,
             t,
             h_old: vec![0.0; n],
             response: Vec::new(),
+            responses_current: false,
+            first_iteration: true,
+            t_start: Vec::new(),
+            guess: Vec::new(),
+            guess_pending: false,
+            walls_lag: Vec::new(),
             r: vec![0.0; n],
             delta: vec![0.0; n],
             work: vec![0.0; n],
@@ -1053,71 +1103,136 @@ impl<'m> Stepper<'m> {
     }
 
     /// Rebuilds the coefficients where k or C changed; returns whether anything did.
+    /// After the first build only the cells of non-linear materials are checked,
+    /// and only the entries of cells that changed (and their faces) are rebuilt.
     fn update_coefficients(&mut self, inverse_dt: f64) -> bool {
         let mesh = self.mesh;
-        let (nx, nz) = (mesh.nx, mesh.nz);
-        let mut changed = inverse_dt != self.inverse_dt;
-        let mut k_changed = false;
-        for c in 0..nx * nz {
-            if !mesh.active[c] {
-                continue;
-            }
-            let m = &mesh.material[c];
-            let (k, cap) = (m.conductivity(self.t[c]), m.capacity(self.t[c]));
-            if k != self.k_used[c] {
-                self.k_used[c] = k;
-                k_changed = true;
-            }
-            if cap != self.c_used[c] {
-                self.c_used[c] = cap;
-                changed = true;
-            }
-        }
-        if !(changed || k_changed) {
-            return false;
-        }
-        self.inverse_dt = inverse_dt;
-        let k = &self.k_used;
-        let co = &mut self.coefficients;
-        for c in 0..nx * nz {
-            co.m[c] = if mesh.active[c] {
-                mesh.volume[c] * self.c_used[c] * inverse_dt
-            } else {
-                1.0
-            };
-            co.d[c] = 0.0;
-        }
-        for iz in 0..nz {
-            for ix in 0..nx - 1 {
-                let f = iz * (nx - 1) + ix;
-                let (a, b) = mesh.x_half[f];
-                let c = iz * nx + ix;
-                co.gx[f] = if a.is_finite() {
-                    1.0 / (a / k[c] + b / k[c + 1])
+        if inverse_dt != self.inverse_dt {
+            self.inverse_dt = inverse_dt;
+            for c in 0..mesh.cells() {
+                self.storage[c] = if mesh.active[c] {
+                    mesh.volume[c] * inverse_dt
                 } else {
                     0.0
                 };
             }
+            for c in 0..mesh.cells() {
+                if mesh.active[c] {
+                    let m = &mesh.material[c];
+                    self.k_used[c] = m.conductivity(self.t[c]);
+                    self.c_used[c] = m.capacity(self.t[c]);
+                }
+            }
+            self.rebuild_all_coefficients();
+            return true;
+        }
+        let mut changed = false;
+        let candidates = if self.check_all {
+            std::mem::take(&mut self.nonlinear)
+        } else {
+            std::mem::take(&mut self.dirty)
+        };
+        for &c in &candidates {
+            let m = &mesh.material[c];
+            let (k, cap) = (m.conductivity(self.t[c]), m.capacity(self.t[c]));
+            if cap != self.c_used[c] {
+                self.c_used[c] = cap;
+                self.coefficients.m[c] = mesh.volume[c] * cap * inverse_dt;
+                changed = true;
+            }
+            if k != self.k_used[c] {
+                self.k_used[c] = k;
+                self.rebuild_cell_conductances(c);
+                changed = true;
+            }
+        }
+        if self.check_all {
+            self.nonlinear = candidates;
+            self.check_all = false;
+        } else {
+            self.dirty = candidates;
+        }
+        self.dirty.clear();
+        changed
+    }
+
+    /// Every coefficient from `k_used`, `c_used` and `inverse_dt`.
+    fn rebuild_all_coefficients(&mut self) {
+        let mesh = self.mesh;
+        let (nx, nz) = (mesh.nx, mesh.nz);
+        for c in 0..nx * nz {
+            self.coefficients.m[c] = if mesh.active[c] {
+                mesh.volume[c] * self.c_used[c] * self.inverse_dt
+            } else {
+                1.0
+            };
+            self.coefficients.d[c] = self.boundary_conductance(c);
+        }
+        for iz in 0..nz {
+            for ix in 0..nx - 1 {
+                self.coefficients.gx[iz * (nx - 1) + ix] = self.x_face_conductance(iz * (nx - 1) + ix);
+            }
         }
         for f in 0..(nz - 1) * nx {
-            let (a, b) = mesh.z_half[f];
-            co.gz[f] = if a.is_finite() {
-                1.0 / (a / k[f] + b / k[f + nx])
-            } else {
-                0.0
-            };
+            self.coefficients.gz[f] = self.z_face_conductance(f);
         }
-        for ix in 0..nx {
-            if mesh.active[ix] {
-                co.d[ix] += 1.0 / (mesh.surface[ix].0 / k[ix] + mesh.surface[ix].1);
-            }
+    }
+
+    /// The boundary conductance and the four faces of cell `c` after its `k` changed.
+    fn rebuild_cell_conductances(&mut self, c: usize) {
+        let (nx, nz) = (self.mesh.nx, self.mesh.nz);
+        let (ix, iz) = (c % nx, c / nx);
+        self.coefficients.d[c] = self.boundary_conductance(c);
+        if ix > 0 {
+            let f = iz * (nx - 1) + ix - 1;
+            self.coefficients.gx[f] = self.x_face_conductance(f);
         }
-        for coupling in &mesh.couplings {
-            for &(c, factor) in &coupling.links {
-                co.d[c] += factor * k[c];
-            }
+        if ix + 1 < nx {
+            let f = iz * (nx - 1) + ix;
+            self.coefficients.gx[f] = self.x_face_conductance(f);
         }
-        true
+        if iz > 0 {
+            self.coefficients.gz[c - nx] = self.z_face_conductance(c - nx);
+        }
+        if iz + 1 < nz {
+            self.coefficients.gz[c] = self.z_face_conductance(c);
+        }
+    }
+
+    /// Series conductance of x face `f` (0 where a side is outside the domain).
+    fn x_face_conductance(&self, f: usize) -> f64 {
+        let nx = self.mesh.nx;
+        let (a, b) = self.mesh.x_half[f];
+        let c = (f / (nx - 1)) * nx + f % (nx - 1);
+        if a.is_finite() {
+            1.0 / (a / self.k_used[c] + b / self.k_used[c + 1])
+        } else {
+            0.0
+        }
+    }
+
+    /// Series conductance of z face `f` (0 where a side is outside the domain).
+    fn z_face_conductance(&self, f: usize) -> f64 {
+        let (a, b) = self.mesh.z_half[f];
+        if a.is_finite() {
+            1.0 / (a / self.k_used[f] + b / self.k_used[f + self.mesh.nx])
+        } else {
+            0.0
+        }
+    }
+
+    /// Surface and pipe-link conductance on the diagonal of cell `c`.
+    fn boundary_conductance(&self, c: usize) -> f64 {
+        if !self.mesh.active[c] {
+            return 0.0;
+        }
+        let k = self.k_used[c];
+        let surface = if c < self.mesh.nx {
+            1.0 / (self.mesh.surface[c].0 / k + self.mesh.surface[c].1)
+        } else {
+            0.0
+        };
+        surface + self.link_factor[c] * k
     }
 
     /// Link conductances of coupling `p` at the current coefficients.
@@ -1128,45 +1243,66 @@ impl<'m> Stepper<'m> {
             .map(|&(c, f)| (c, f * self.k_used[c]))
     }
 
-    /// Refreshes the solver and the wall responses after a change of coefficients.
-    fn prepare(&mut self, walls: &[Wall]) -> Result<(), String> {
-        self.solver.prepare(&self.coefficients)?;
-        self.response.clear();
+    /// Refreshes the wall responses `u_p = S(g_p)` (solver applied to the link
+    /// conductances of each node pipe) with the current solver and coefficients.
+    fn refresh_responses(&mut self, walls: &[Wall]) {
+        self.response.resize_with(walls.len(), Vec::new);
         for (p, wall) in walls.iter().enumerate() {
-            let mut u = vec![0.0; self.mesh.cells()];
+            let mut u = std::mem::take(&mut self.response[p]);
+            u.resize(self.mesh.cells(), 0.0);
             if matches!(wall, Wall::Fluid(..) | Wall::Rate(_)) {
                 self.work.iter_mut().for_each(|w| *w = 0.0);
-                for (c, g) in self.link_g(p).collect::<Vec<_>>() {
-                    self.work[c] = g;
+                for &(c, f) in &self.mesh.couplings[p].links {
+                    self.work[c] += f * self.k_used[c];
                 }
-                self.solver.apply(&self.coefficients, &self.work, &mut u);
+                // The previous response is the starting guess of an iterative solver.
+                self.solver.apply_from(&self.coefficients, &self.work, &mut u);
                 self.solves += 1;
             }
-            self.response.push(u);
+            self.response[p] = u;
         }
-        self.prepared = true;
-        Ok(())
+        self.responses_current = true;
     }
 
     /// One linear solve at the current iterate: returns the solved temperatures
     /// in `self.delta` (as T*) and the flows at them.
     fn solve_iteration(&mut self, walls: &[Wall], surface_c: f64, inverse_dt: f64) -> Result<Flows, String> {
         let mesh = self.mesh;
-        let n = mesh.cells();
         let nx = mesh.nx;
         if self.update_coefficients(inverse_dt) || !self.prepared {
-            self.prepare(walls)?;
+            self.solver.prepare(&self.coefficients)?;
+            self.prepared = true;
+            self.responses_current = false;
+        }
+        // Responses of an older operator would only slow the convergence (the wall
+        // temperatures are lagged below), but where the soil at a pipe freezes the
+        // iteration then oscillates; they are refreshed with the coefficients (an
+        // iterative solver starts from the previous response, so this is cheap).
+        if !self.responses_current {
+            self.refresh_responses(walls);
+        }
+        self.first_iteration = false;
+        if self.walls_lag.len() != walls.len() {
+            self.walls_lag = (0..walls.len())
+                .map(|p| {
+                    let links = &mesh.couplings[p].links;
+                    links.iter().map(|&(c, _)| self.t[c]).sum::<f64>() / links.len().max(1) as f64
+                })
+                .collect();
         }
         // Residual r = V/Δt·(Hⁿ − Hᵐ) + sources − A·Tᵐ (A = K − M: conduction and
         // boundary terms), without the unknown wall temperatures.
-        self.coefficients.multiply(&self.t, &mut self.work);
-        for c in 0..n {
-            self.r[c] = if mesh.active[c] {
-                mesh.volume[c] * inverse_dt * (self.h_old[c] - self.h[c]) - self.work[c]
-                    + self.coefficients.m[c] * self.t[c]
-            } else {
-                0.0
-            };
+        self.coefficients.multiply_conduction(&self.t, &mut self.work);
+        // Cells outside the domain: storage 0, no faces, so r = 0.
+        for ((((r, s), h_old), h), w) in self
+            .r
+            .iter_mut()
+            .zip(&self.storage)
+            .zip(&self.h_old)
+            .zip(&self.h)
+            .zip(&self.work)
+        {
+            *r = s * (h_old - h) - w;
         }
         for ix in 0..nx {
             if mesh.active[ix] {
@@ -1189,21 +1325,58 @@ impl<'m> Stepper<'m> {
                         self.r[c] += share * total;
                     }
                 }
-                Wall::Fluid(..) | Wall::Rate(_) => {}
+                Wall::Fluid(..) | Wall::Rate(_) => {
+                    // Lagged wall temperature; corrected through the response below.
+                    let t_lag = self.walls_lag[p];
+                    for &(c, f) in &mesh.couplings[p].links {
+                        self.r[c] += f * self.k_used[c] * t_lag;
+                    }
+                }
             }
         }
-        self.solver.apply(&self.coefficients, &self.r, &mut self.delta);
-        self.solves += 1;
-        for c in 0..n {
-            self.delta[c] += self.t[c];
+        if self.solver.uses_guess() {
+            // Guess: the last step's change in its first iteration, none after.
+            if self.guess.len() == self.delta.len() && self.guess_pending {
+                self.delta.copy_from_slice(&self.guess);
+            } else {
+                self.delta.iter_mut().for_each(|d| *d = 0.0);
+            }
+            self.guess_pending = false;
         }
-        // Wall temperatures of node pipes: a small dense system.
+        self.solver
+            .apply_from(&self.coefficients, &self.r, &mut self.delta);
+        self.solves += 1;
+        for (d, t) in self.delta.iter_mut().zip(&self.t) {
+            *d += t;
+        }
+        // Wall temperatures of node pipes: a small dense system on the link cells,
+        // with the lagged walls' contribution `Σ T_lag·u` taken out there.
+        let nodes: Vec<usize> = (0..walls.len())
+            .filter(|&p| matches!(walls[p], Wall::Fluid(..) | Wall::Rate(_)))
+            .collect();
+        let mut saved = Vec::new();
+        for &p in &nodes {
+            for &(c, _) in &mesh.couplings[p].links {
+                saved.push((c, self.delta[c]));
+            }
+        }
+        for &(c, _) in &saved {
+            self.delta[c] = saved.iter().find(|s| s.0 == c).map_or(0.0, |s| s.1)
+                - nodes
+                    .iter()
+                    .map(|&q| self.walls_lag[q] * self.response[q][c])
+                    .sum::<f64>();
+        }
         let walls_c = self.solve_walls(walls);
-        for (p, wall) in walls.iter().enumerate() {
-            if matches!(wall, Wall::Fluid(..) | Wall::Rate(_)) {
-                let t_w = walls_c[p];
+        for &(c, value) in &saved {
+            self.delta[c] = value;
+        }
+        for &p in &nodes {
+            let correction = walls_c[p] - self.walls_lag[p];
+            self.walls_lag[p] = walls_c[p];
+            if correction != 0.0 {
                 for (d, u) in self.delta.iter_mut().zip(&self.response[p]) {
-                    *d += t_w * u;
+                    *d += correction * u;
                 }
             }
         }
@@ -1304,11 +1477,23 @@ impl<'m> Stepper<'m> {
         self.h_old.copy_from_slice(&self.h);
         let inverse_dt = 1.0 / dt_s;
         let mut flows = Flows::default();
+        self.first_iteration = true;
+        let guessing = self.solver.uses_guess();
+        if guessing {
+            self.t_start.clone_from(&self.t);
+            self.guess_pending = true;
+        }
         for _ in 0..opts.max_iterations.max(1) {
             flows = self.solve_iteration(&walls, surface_c, inverse_dt)?;
             // Energy balance holds after every iteration, converged or not.
             if self.apply_update()? < opts.tolerance_k {
                 break;
+            }
+        }
+        if guessing {
+            self.guess.resize(self.t.len(), 0.0);
+            for ((g, t), t0) in self.guess.iter_mut().zip(&self.t).zip(&self.t_start) {
+                *g = t - t0;
             }
         }
         Ok(flows)
@@ -1318,23 +1503,48 @@ impl<'m> Stepper<'m> {
     /// returns the largest temperature change, or 0 when the linearisation was
     /// exact (nothing left to iterate).
     fn apply_update(&mut self) -> Result<f64, String> {
+        let mesh = self.mesh;
         let mut change: f64 = 0.0;
         let mut exact = true;
-        for c in 0..self.mesh.cells() {
-            if !self.mesh.active[c] {
+        let mut sum = 0.0;
+        for c in 0..mesh.cells() {
+            if !mesh.active[c] {
                 continue;
             }
-            let m = &self.mesh.material[c];
-            let (h, t_new) = m.linearised_update(self.h[c], self.t[c], self.delta[c]);
-            exact &= m.linearisation_exact(self.t[c], t_new);
-            change = change.max((t_new - self.t[c]).abs());
+            let t_old = self.t[c];
+            let (h, t_new) = if self.is_nonlinear[c] {
+                let m = &mesh.material[c];
+                let (h, t_new) = m.linearised_update(self.h[c], t_old, self.delta[c]);
+                if !m.linearisation_exact(t_old, t_new) {
+                    // Its k or C changes: the coefficients are rebuilt there.
+                    exact = false;
+                    self.dirty.push(c);
+                }
+                (h, t_new)
+            } else {
+                // One straight H(T): c_used is the capacity, the update is exact.
+                let cap = self.c_used[c];
+                let h = self.h[c] + cap * (self.delta[c] - t_old);
+                (h, h / cap)
+            };
+            let moved = (t_new - t_old).abs();
+            if moved > change {
+                change = moved;
+            }
+            sum += t_new;
             self.h[c] = h;
             self.t[c] = t_new;
         }
-        if !change.is_finite() {
+        if !sum.is_finite() {
             return Err("the temperatures became non-finite; check the model".into());
         }
-        Ok(if exact { 0.0 } else { change })
+        // With responses of an older operator the wall temperatures are not yet
+        // consistent, so the iterate is only final when it stops moving.
+        Ok(if exact && self.responses_current {
+            0.0
+        } else {
+            change
+        })
     }
 
     /// Temperature of cell `c` for output (a pipe's wall temperature inside it).
@@ -1434,14 +1644,18 @@ fn initial_field(mesh: &Mesh, initial: &Initial) -> Result<Vec<f64>, String> {
     Ok(t)
 }
 
+/// Relative residual of the iterative solver's solves.
+const PCG_TOLERANCE: f64 = 1e-4;
+
 fn new_solver(kind: SolverKind, mesh: &Mesh) -> Result<Box<dyn CellSolver>, String> {
     let kind = match kind {
         SolverKind::Auto if mesh.material.iter().all(Material::is_linear) => SolverKind::Adi,
-        SolverKind::Auto => SolverKind::Direct,
+        SolverKind::Auto => SolverKind::Iterative,
         other => other,
     };
     Ok(match kind {
         SolverKind::Adi => Box::new(AdiSolver::new(mesh.nx, mesh.nz)),
+        SolverKind::Iterative => Box::new(PcgSolver::new(mesh.nx, mesh.nz, PCG_TOLERANCE)),
         _ => Box::new(DirectSolver::new(mesh.nx, mesh.nz)?),
     })
 }
@@ -1629,6 +1843,8 @@ pub fn solve_steady(model: &SectionModel, grid: &GridOptions, t_s: f64) -> Resul
             );
         }
         stepper.h_old.copy_from_slice(&stepper.h);
+        stepper.first_iteration = true;
+        stepper.check_all = true;
         flows = stepper.solve_iteration(&walls, surface_c, 0.0)?;
         let mut change: f64 = 0.0;
         for c in 0..mesh.cells() {
