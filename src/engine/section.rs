@@ -217,23 +217,9 @@ impl SectionModel {
 /// `inner_radius_m` is the bore; `layers` are `(thickness_m, conductivity_w_mk)`
 /// from the inside out.
 pub fn wall_resistance_m_k_w(inner_radius_m: f64, layers: &[(f64, f64)]) -> Result<f64, String> {
-    if !(inner_radius_m.is_finite() && inner_radius_m > 0.0) {
-        return Err(format!(
-            "the inner radius is {inner_radius_m} m; it must be positive"
-        ));
-    }
-    let mut r = inner_radius_m;
-    let mut total = 0.0;
-    for (i, &(thickness, k)) in layers.iter().enumerate() {
-        if !(thickness.is_finite() && thickness > 0.0 && k.is_finite() && k > 0.0) {
-            return Err(format!(
-                "wall layer {i} has thickness {thickness} m and conductivity {k} W/(m K); both must be positive"
-            ));
-        }
-        total += ((r + thickness) / r).ln() / (2.0 * PI * k);
-        r += thickness;
-    }
-    Ok(total)
+    use crate::physics::buried_pipe::wall::{WallLayer, wall_resistance_m_k_per_w};
+    let layers: Vec<WallLayer> = layers.iter().map(|&(t, k)| WallLayer::new(t, k)).collect();
+    wall_resistance_m_k_per_w(inner_radius_m, &layers)
 }
 
 /// Mesh settings.
