@@ -1,8 +1,7 @@
 //! `kind: frost`: design freezing index, frost depth by Stefan and the modified Berggren
 //! equation (TM 5-852-6), and whether a water main at its cover stays frost-free.
 
-use crate::calendar::civil_from_days;
-use crate::calendar::days_from_civil;
+use crate::calendar::{civil_from_days, days_from_civil};
 use crate::ground::climate::SurfaceYear;
 use crate::ground::profile::Undisturbed;
 use crate::model::{Climate, DAY_S, Frost, NFactors, Pipe, PipeDrive, Site};
@@ -169,7 +168,6 @@ fn design_index(
     season: &[f64],
     n_f: f64,
 ) -> Result<(f64, Option<f64>, String, Vec<SeasonFigure>), String> {
-    let air = air_n_factors(climate).is_some();
     if let Some(air_index) = f.design_air_freezing_index_c_days {
         return Ok((
             n_f * air_index,
@@ -205,7 +203,7 @@ fn design_index(
                 Vec::new(),
             ))
         }
-        Climate::Series(s) => series_index(f, s, air),
+        Climate::Series(s) => series_index(f, s),
         Climate::Constant { .. } => Err("a frost study needs a climate with seasons".into()),
     }
 }
@@ -213,7 +211,6 @@ fn design_index(
 fn series_index(
     f: &Frost,
     s: &crate::model::AirSeries,
-    _air: bool,
 ) -> Result<(f64, Option<f64>, String, Vec<SeasonFigure>), String> {
     let per_day = (DAY_S / s.step_s).round().max(1.0) as usize;
     let daily_air: Vec<f64> = s
