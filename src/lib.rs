@@ -5,6 +5,7 @@
 //! (plain data) → [`report`] (HTML, plots, CSV, JSON). See DEVELOPERS.md for the code map.
 
 pub mod calendar;
+pub mod checks;
 pub mod engine;
 pub mod ground;
 pub mod materials;

@@ -81,6 +81,8 @@
 
 use std::f64::consts::PI;
 
+use crate::checks::positive as check_positive;
+
 use crate::engine::grid::{Axis, Grading, Zone};
 use crate::engine::linear::{AdiSolver, CellSolver, Coefficients, DirectSolver, PcgSolver};
 use crate::engine::material::Material;
@@ -442,14 +444,6 @@ struct Mesh {
     /// Bottom cell areas.
     bottom_area: Vec<f64>,
     couplings: Vec<Coupling>,
-}
-
-fn check_positive(name: &str, v: f64) -> Result<(), String> {
-    if v.is_finite() && v > 0.0 {
-        Ok(())
-    } else {
-        Err(format!("{name} is {v}; it must be a positive finite number"))
-    }
 }
 
 /// Pipe diameter below which the well index is used instead of a cut-out: a fifth

@@ -19,6 +19,7 @@
 //!   Physics of Plant Environment, North-Holland (1963), Table 7.1 (from
 //!   memory): heat capacities of soil constituents.
 
+use crate::checks::positive as check_positive;
 use std::sync::OnceLock;
 
 // ---------------------------------------------------------------------------
@@ -110,14 +111,6 @@ fn check_fraction(name: &str, value: f64, lo: f64, hi: f64) -> Result<(), String
         Err(format!(
             "{name} {value} is outside the allowed range {lo} to {hi}"
         ))
-    }
-}
-
-fn check_positive(name: &str, value: f64) -> Result<(), String> {
-    if value.is_finite() && value > 0.0 {
-        Ok(())
-    } else {
-        Err(format!("{name} {value} must be a positive number"))
     }
 }
 

@@ -42,6 +42,7 @@
 //! two symmetric channels, R_b* = R_b η coth η with η = H/(ṁ c_p √(R_a R_b)). See
 //! [`effective_resistance_uniform_flux`] and [`effective_resistance_uniform_wall_temperature`].
 
+use crate::checks::positive;
 use nalgebra::{Complex, DMatrix, DVector};
 use std::f64::consts::PI;
 
@@ -718,14 +719,4 @@ fn check_effective_inputs(rb: f64, ra: f64, length_m: f64, capacity: f64) -> Res
     positive("internal resistance R_a (m K/W)", ra)?;
     positive("borehole length (m)", length_m)?;
     positive("flow capacity ṁ c_p (W/K)", capacity)
-}
-
-fn positive(what: &str, value: f64) -> Result<(), String> {
-    if value.is_finite() && value > 0.0 {
-        Ok(())
-    } else {
-        Err(format!(
-            "the {what} is {value}; it must be a positive finite number"
-        ))
-    }
 }

@@ -18,6 +18,7 @@
 //! same idea ends at Re = 10⁴ with a turbulent equation without the "−1000" term; it is not used
 //! here so that the tube Nusselt number is continuous with the 1976 correlation.
 
+use crate::checks::{non_negative as check_non_negative, positive as check_positive};
 use crate::materials::fluids::Fluid;
 use std::f64::consts::PI;
 
@@ -512,26 +513,6 @@ pub fn pumping_power_w(pressure_drop_pa: f64, volume_flow_m3_s: f64, efficiency:
 fn interpolate_transition(re: f64, re_low: f64, re_high: f64, low: f64, high: f64) -> f64 {
     let gamma = (re - re_low) / (re_high - re_low);
     (1.0 - gamma) * low + gamma * high
-}
-
-fn check_positive(what: &str, value: f64) -> Result<(), String> {
-    if value.is_finite() && value > 0.0 {
-        Ok(())
-    } else {
-        Err(format!(
-            "the {what} is {value}; it must be a positive finite number"
-        ))
-    }
-}
-
-fn check_non_negative(what: &str, value: f64) -> Result<(), String> {
-    if value.is_finite() && value >= 0.0 {
-        Ok(())
-    } else {
-        Err(format!(
-            "the {what} is {value}; it must be a finite number not below 0"
-        ))
-    }
 }
 
 fn check_range(what: &str, value: f64, low: f64, high: f64) -> Result<(), String> {

@@ -103,33 +103,15 @@ impl Position {
     }
 }
 
-/// Ok when `value` is finite and > 0, else a one-sentence message naming `what` and the unit.
+/// The shared checks ([`crate::checks`]) with the unit named beside the quantity.
 pub(crate) fn positive(what: &str, value: f64, unit: &str) -> Result<(), String> {
-    if value.is_finite() && value > 0.0 {
-        Ok(())
-    } else {
-        Err(format!(
-            "{what} is {value} {unit}; it must be a positive finite number"
-        ))
-    }
+    crate::checks::positive(&format!("{what} ({unit})"), value)
 }
 
-/// Ok when `value` is finite and ≥ 0.
 pub(crate) fn not_negative(what: &str, value: f64, unit: &str) -> Result<(), String> {
-    if value.is_finite() && value >= 0.0 {
-        Ok(())
-    } else {
-        Err(format!(
-            "{what} is {value} {unit}; it must be a finite number, zero or more"
-        ))
-    }
+    crate::checks::non_negative(&format!("{what} ({unit})"), value)
 }
 
-/// Ok when `value` is finite.
 pub(crate) fn finite(what: &str, value: f64, unit: &str) -> Result<(), String> {
-    if value.is_finite() {
-        Ok(())
-    } else {
-        Err(format!("{what} is {value} {unit}; it must be a finite number"))
-    }
+    crate::checks::finite(&format!("{what} ({unit})"), value)
 }

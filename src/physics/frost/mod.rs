@@ -49,6 +49,7 @@ pub use pipe::{
 };
 pub use stefan::{FrostLayer, layered_stefan_depth_m, layered_stefan_index_c_s, stefan_depth_m};
 
+use crate::checks::{finite as check_finite, non_negative as check_non_negative, positive as check_positive};
 use crate::physics::annual_wave::DAY_S;
 
 /// Converts a freezing or thawing index from °C·days to °C·s (× 86 400).
@@ -59,35 +60,4 @@ pub fn c_days_to_c_s(index_c_days: f64) -> f64 {
 /// Converts a freezing or thawing index from °C·s to °C·days (÷ 86 400).
 pub fn c_s_to_c_days(index_c_s: f64) -> f64 {
     index_c_s / DAY_S
-}
-
-/// `Ok(())` when `value` is finite and strictly positive, else the one-sentence error.
-fn check_positive(name: &str, value: f64) -> Result<(), String> {
-    if value.is_finite() && value > 0.0 {
-        Ok(())
-    } else {
-        Err(format!(
-            "{name} is {value}; it must be a finite number greater than zero"
-        ))
-    }
-}
-
-/// `Ok(())` when `value` is finite and not negative, else the one-sentence error.
-fn check_non_negative(name: &str, value: f64) -> Result<(), String> {
-    if value.is_finite() && value >= 0.0 {
-        Ok(())
-    } else {
-        Err(format!(
-            "{name} is {value}; it must be a finite number, zero or greater"
-        ))
-    }
-}
-
-/// `Ok(())` when `value` is finite, else the one-sentence error.
-fn check_finite(name: &str, value: f64) -> Result<(), String> {
-    if value.is_finite() {
-        Ok(())
-    } else {
-        Err(format!("{name} is {value}; it must be a finite number"))
-    }
 }
