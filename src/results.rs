@@ -244,7 +244,8 @@ pub struct FrostResult {
 
 #[derive(Clone, Debug, Serialize)]
 pub struct FrostDepths {
-    pub stefan: f64,
+    /// Absent when the soil holds no water (Stefan needs latent heat).
+    pub stefan: Option<f64>,
     pub berggren: Option<f64>,
     pub numerical: Option<f64>,
 }

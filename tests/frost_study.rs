@@ -60,11 +60,8 @@ fn a_wave_climate_gives_the_closed_form_index_and_stefan_depth() {
         f.design_freezing_index_c_days
     );
     let stefan = (2.0 * K_F * index * 86_400.0 / L).sqrt();
-    assert!(
-        (f.frost_depth_m.stefan - stefan).abs() < 1e-6,
-        "{} vs {stefan}",
-        f.frost_depth_m.stefan
-    );
+    let got = f.frost_depth_m.stefan.unwrap();
+    assert!((got - stefan).abs() < 1e-6, "{got} vs {stefan}");
     // The modified Berggren depth lies below Stefan's upper bound (λ < 1) and governs.
     let b = f.frost_depth_m.berggren.unwrap();
     assert!(b < stefan && f.max_frost_depth_m == b);
@@ -148,4 +145,40 @@ fn a_series_design_index_is_the_mean_of_the_three_coldest_winters() {
         "{} vs {want}",
         f.design_freezing_index_c_days
     );
+}
+
+/// Coldest pipe wall: the water's temperature reaches the wall through the wall and ground
+/// resistances in series, so T_wall = T_g + (T_w − T_g)·R_g/(R_w + R_g), with R_g the cylinder
+/// under an isothermal surface, acosh(H/r)/(2πk) (Carslaw & Jaeger; shape-factor tables), and the
+/// coldest undisturbed T_g at the pipe depth from the closed-form wave, mean − A·e^(−z/d)
+/// (Carslaw & Jaeger §2.6). A dry homogeneous soil keeps the ground on the closed form.
+#[test]
+fn the_coldest_pipe_wall_follows_the_series_resistances() {
+    let text = "site: {name: wall}
+climate: {model: annual-wave, mean: 3 °C, amplitude: 12 K, coldest_day: 20}
+ground:
+  layers: [{name: dry sand, conductivity: 1.5, heat_capacity: 2.0e6}]
+studies:
+  - id: main
+    kind: frost
+    pipe: {id: m, depth: 1.5 m, outer_diameter: 0.16, layers: [{name: pe, thickness: 10 mm, conductivity: 0.4}], fluid: {temperature: 4}}
+";
+    let r = run_in(text, Path::new("."));
+    let f = frost(&r);
+    let d = (1.5_f64 / 2.0e6 * 365.0 * 86_400.0 / PI).sqrt();
+    let t_g = 3.0 - 12.0 * (-1.5 / d).exp();
+    let r_g = (1.5_f64 / 0.08).acosh() / (2.0 * PI * 1.5);
+    let r_w = (0.08_f64 / 0.07).ln() / (2.0 * PI * 0.4);
+    let want = t_g + (4.0 - t_g) * r_g / (r_w + r_g);
+    let got = f.pipe_min_temperature_c.unwrap();
+    assert!((got - want).abs() < 1e-3, "{got} vs {want}");
+    // Dry soil: no latent heat for Stefan or Berggren, so the frost depth is where the damped
+    // minimum crosses 0 °C, z = d·ln(A/m) (Carslaw & Jaeger §2.6), and a caution says so.
+    assert_eq!(f.frost_depth_m.stefan, None);
+    assert!(
+        (f.max_frost_depth_m - d * (12.0_f64 / 3.0).ln()).abs() < 0.005,
+        "{}",
+        f.max_frost_depth_m
+    );
+    assert!(r.warnings.iter().any(|w| w.code == "frost.no_latent_heat"));
 }

@@ -87,7 +87,7 @@ pub fn section(h: &mut String, f: &FrostResult) {
 <tr><td>Design surface freezing index</td><td class=\"n\">{:.0} °C·d</td></tr>\n\
 <tr><td>Air freezing index</td><td class=\"n\">{}</td></tr>\n\
 <tr><td>Mean annual surface temperature; freezing season</td><td class=\"n\">{:.2} °C; {:.0} days</td></tr>\n\
-<tr><td>Frost depth, Stefan (upper bound)</td><td class=\"n\">{:.2} m</td></tr>\n\
+<tr><td>Frost depth, Stefan (upper bound)</td><td class=\"n\">{}</td></tr>\n\
 <tr><td>Frost depth, modified Berggren</td><td class=\"n\">{}</td></tr>\n\
 <tr><td>Frost depth, numerical</td><td class=\"n\">{}</td></tr>\n\
 <tr><td><b>Governing frost depth</b></td><td class=\"n\"><b>{:.2} m</b></td></tr>\n",
@@ -95,7 +95,7 @@ pub fn section(h: &mut String, f: &FrostResult) {
         opt(f.air_freezing_index_c_days, "°C·d"),
         f.mean_annual_surface_c,
         f.freezing_season_days,
-        f.frost_depth_m.stefan,
+        opt(f.frost_depth_m.stefan, "m"),
         opt(f.frost_depth_m.berggren, "m"),
         f.frost_depth_m
             .numerical

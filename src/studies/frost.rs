@@ -49,8 +49,21 @@ pub fn run(
     let mean_annual = daily.iter().sum::<f64>() / 365.0;
     let season_days = daily.iter().filter(|t| **t < 0.0).count() as f64;
     let layers = frost_layers(site);
-    let stefan = fp::layered_stefan_depth_m(&layers, fp::c_days_to_c_s(surface_index))?;
-    let berggren = if surface_index > 0.0 && season_days > 0.0 {
+    // Stefan and Berggren balance the freezing index against latent heat; a soil with no water
+    // freezes without it, and its frost depth is where the undisturbed ground's annual minimum
+    // crosses 0 °C.
+    let stefan = match fp::layered_stefan_depth_m(&layers, fp::c_days_to_c_s(surface_index)) {
+        Ok(x) => Some(x),
+        Err(e) => {
+            warnings.push(warn(
+                Level::Caution,
+                "frost.no_latent_heat",
+                format!("Stefan's and Berggren's formulas do not apply ({e}); the frost depth is where the undisturbed ground's lowest temperature crosses 0 °C"),
+            ));
+            None
+        }
+    };
+    let berggren = if stefan.is_some() && surface_index > 0.0 && season_days > 0.0 {
         match fp::modified_berggren_depth(
             &layers,
             &fp::FreezingSeason {
@@ -69,7 +82,10 @@ pub fn run(
     } else {
         None
     };
-    let governing = berggren.map_or(stefan, |b| b.depth_m);
+    let governing = berggren
+        .map(|b| b.depth_m)
+        .or(stefan)
+        .unwrap_or_else(|| ground.max_frost_depth_m(crate::ground::profile::DEFAULT_PROFILE_DEPTH_M));
 
     let mut result = FrostResult {
         design_freezing_index_c_days: surface_index,
