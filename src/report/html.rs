@@ -290,6 +290,7 @@ fn studies(h: &mut String, r: &Results, figures: &[Vec<Figure>]) {
             Figures::HeatLoss(hl) => super::heat_loss::section(h, hl),
             Figures::Frost(f) => super::frost::section(h, f),
             Figures::CrossSection(c) => super::cross_section::section(h, c),
+            Figures::Borefield(b) => super::borefield::section(h, b),
         }
         figure_list(h, figs);
         let _ = write!(h, "</section>\n");

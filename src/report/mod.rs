@@ -4,6 +4,7 @@
 //! The bundle is written into a temporary folder beside the target and renamed into place, so a
 //! failed run leaves either the previous bundle or nothing, never half of one.
 
+pub mod borefield;
 pub mod cross_section;
 pub mod csv;
 pub mod frost;
@@ -54,6 +55,7 @@ pub fn figures(results: &Results) -> Result<ReportFigures, String> {
             Figures::HeatLoss(h) => heat_loss::figures(s, h),
             Figures::Frost(f) => frost::figures(s, f),
             Figures::CrossSection(c) => cross_section::figures(s, c),
+            Figures::Borefield(b) => borefield::figures(s, b),
         })
         .collect::<Result<_, _>>()?;
     Ok(ReportFigures { ground, studies })
@@ -71,6 +73,10 @@ fn csv_files(results: &Results) -> Vec<(String, String)> {
             Figures::Frost(f) => files.push((format!("{}-degree-days.csv", s.id), frost::degree_days_csv(f))),
             Figures::CrossSection(c) => {
                 files.push((format!("{}-series.csv", s.id), cross_section::series_csv(c)))
+            }
+            Figures::Borefield(b) => {
+                files.push((format!("{}-fluid.csv", s.id), borefield::fluid_csv(b)));
+                files.push((format!("{}-g-function.csv", s.id), borefield::g_function_csv(b)));
             }
         }
     }

@@ -138,7 +138,6 @@ pub struct LayerDoc {
 /// One study; `kind` says which, and each kind has its own keys.
 #[derive(Debug, Deserialize, JsonSchema)]
 #[serde(tag = "kind", rename_all = "kebab-case")]
-#[schemars(extend("x-planned-kinds" = ["borefield"]))]
 pub enum StudyDoc {
     /// Heat loss of buried district-heating pipes, insulation sizing, neighbouring utilities.
     HeatLoss(super::kinds::heat_loss::HeatLossDoc),
@@ -147,6 +146,9 @@ pub enum StudyDoc {
     /// Design freezing index, frost depth by Stefan and modified Berggren, and a water main's
     /// safety.
     Frost(super::kinds::frost::FrostDoc),
+    /// A field of ground heat exchangers for a heat pump: g-function, borehole resistance, fluid
+    /// temperatures over the design life, and length sizing.
+    Borefield(super::kinds::borefield::BorefieldDoc),
 }
 
 impl StudyDoc {
@@ -155,6 +157,7 @@ impl StudyDoc {
             StudyDoc::HeatLoss(d) => &d.id,
             StudyDoc::Frost(d) => &d.id,
             StudyDoc::CrossSection(d) => &d.id,
+            StudyDoc::Borefield(d) => &d.id,
         }
     }
 }

@@ -491,7 +491,7 @@ fn studies(docs: &[StudyDoc], path: &KeyPath, v: &mut Validator) -> Option<Vec<S
 }
 
 fn study(doc: &StudyDoc, path: &KeyPath, v: &mut Validator) -> Option<Study> {
-    use super::kinds::{cross_section, frost, heat_loss, method};
+    use super::kinds::{borefield, cross_section, frost, heat_loss, method};
     match doc {
         StudyDoc::CrossSection(d) => {
             let m = method(
@@ -536,6 +536,21 @@ fn study(doc: &StudyDoc, path: &KeyPath, v: &mut Validator) -> Option<Study> {
                 id: d.id.clone(),
                 method: m?,
                 kind: StudyKind::HeatLoss(study?),
+            })
+        }
+        StudyDoc::Borefield(d) => {
+            let m = method(
+                d.method,
+                Method::Analytic,
+                &borefield::METHODS,
+                &path.key("method"),
+                v,
+            );
+            let study = borefield::validate(d, path, v);
+            Some(Study {
+                id: d.id.clone(),
+                method: m?,
+                kind: StudyKind::Borefield(study?),
             })
         }
     }

@@ -1,9 +1,11 @@
 //! One module per study kind: the validated model → calls into `physics` and `engine` → plain
 //! results. A study never reads YAML or writes files.
 //!
-//! Kinds the product defines but this version cannot run are listed in the schema
-//! (`x-planned-kinds`) and refused by the site check with a "not supported yet" message.
+//! Kinds the product defines but a version cannot run yet are listed in the schema
+//! (`x-planned-kinds` on `StudyDoc`) and refused by the site check with a "not supported yet"
+//! message; every kind of the product runs in this version.
 
+pub mod borefield;
 pub mod cross_section;
 pub mod frost;
 pub mod heat_loss;
@@ -27,6 +29,10 @@ pub fn run(study: &Study, site: &Site, ground: &Undisturbed) -> Result<(StudyRes
             let (r, w) = frost::run(&study.id, f, site, ground)?;
             (Figures::Frost(r), w)
         }
+        StudyKind::Borefield(b) => {
+            let (r, w) = borefield::run(&study.id, b, site, ground)?;
+            (Figures::Borefield(r), w)
+        }
     };
     Ok((
         StudyResult {
@@ -47,6 +53,14 @@ pub fn deepest_point_m(site: &Site) -> f64 {
             StudyKind::CrossSection(c) => c.depth_m,
             StudyKind::HeatLoss(h) => h.pipes.iter().map(|p| 2.0 * p.depth_m).fold(0.0, f64::max),
             StudyKind::Frost(f) => f.pipe.as_ref().map_or(0.0, |p| 2.0 * p.depth_m),
+            StudyKind::Borefield(b) => {
+                let longest = if b.size {
+                    crate::site::kinds::borefield::SIZING_RANGE_M.1
+                } else {
+                    b.active_length_m
+                };
+                b.top_depth_m + longest
+            }
         })
         .fold(0.0, f64::max)
 }

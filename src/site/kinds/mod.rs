@@ -1,6 +1,7 @@
 //! The site-file side of each study kind: its document type (keys, schema descriptions) and its
 //! validation into the model. One file per kind.
 
+pub mod borefield;
 pub mod cross_section;
 pub mod frost;
 pub mod heat_loss;

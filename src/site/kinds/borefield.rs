@@ -1,0 +1,789 @@
+//! `kind: borefield`: a field of ground heat exchangers for a heat pump — its g-function,
+//! borehole resistance, fluid temperatures over the design life, and the length that keeps them
+//! inside the limits.
+
+use super::MethodDoc;
+use crate::materials::fluids::{Fluid, Mixture};
+use crate::model::{Borefield, BoreholeWall, GroundLoads, HeatExchanger, LoopPipe, Method};
+use crate::physics::borehole::DoubleUPairing;
+use crate::physics::gfunction::WallCondition;
+use crate::physics::superposition::MONTH_S;
+use crate::site::diagnostic::KeyPath;
+use crate::site::quantity::*;
+use crate::site::validate::Validator;
+use schemars::JsonSchema;
+use serde::Deserialize;
+
+/// The methods this kind offers: g-functions and superposition (analytic).
+pub const METHODS: [Method; 1] = [Method::Analytic];
+
+/// Shortest and longest active length the sizing searches, m (common practice, no source: most
+/// vertical ground heat exchangers are drilled 40–300 m deep).
+pub const SIZING_RANGE_M: (f64, f64) = (20.0, 400.0);
+
+/// Default absolute roughness of a polyethylene loop pipe, m (common practice, no source:
+/// drawn plastic pipe is hydraulically smooth, 1.5 µm).
+pub const DEFAULT_PIPE_ROUGHNESS_M: f64 = 1.5e-6;
+
+/// Default wire-to-water efficiency of the circulation pump (common practice, no source).
+pub const DEFAULT_PUMP_EFFICIENCY: f64 = 0.5;
+
+/// Default duration of a monthly peak load, s (common practice, no source: a cold morning of
+/// 6 hours at the peak load).
+pub const DEFAULT_PEAK_DURATION_S: f64 = 6.0 * 3600.0;
+
+/// A field of vertical ground heat exchangers (boreholes) serving a heat pump.
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct BorefieldDoc {
+    /// A unique name for the study, used in the report and in file names (letters, digits, `-`,
+    /// `_`, `.`).
+    pub id: String,
+    /// `analytic` (g-functions with temporal superposition; the only method of this kind).
+    #[serde(default)]
+    pub method: Option<MethodDoc>,
+    /// Where the boreholes are: a rectangle of rows × columns, or a list of points.
+    pub layout: LayoutDoc,
+    /// The borehole geometry (the same for every borehole).
+    pub borehole: BoreholeDoc,
+    /// The pipes in each borehole and the grout around them.
+    pub heat_exchanger: HeatExchangerDoc,
+    /// The heat-carrier fluid and its flow.
+    pub fluid: BoreFluidDoc,
+    /// Heat exchanged with the ground by the whole field: give exactly one of `monthly`,
+    /// `building`, `hourly` or `constant`.
+    pub loads: LoadsDoc,
+    /// Limits on the MEAN fluid temperature (mean of the field's inlet and outlet).
+    pub limits: LimitsDoc,
+    /// How long the field must serve (whole months; e.g. `25 years`).
+    pub design_life: Q<Time>,
+    /// Condition at the borehole walls for the g-function: `uniform-temperature` (default) or
+    /// `uniform-heat-flux`.
+    #[serde(default)]
+    pub wall_condition: Option<WallConditionDoc>,
+    /// `active_length`: find the active length that keeps the fluid inside the limits (the
+    /// layout stays as given).
+    #[serde(default)]
+    pub size: Option<SizeDoc>,
+    /// Segments per borehole for the uniform-wall-temperature g-function (default 12).
+    #[serde(default)]
+    pub segments: Option<usize>,
+    /// Wire-to-water efficiency of the circulation pump (default 50 %).
+    #[serde(default)]
+    pub pump_efficiency: Option<Q<Fraction>>,
+    /// A ground conductivity measured by a thermal response test; replaces the depth-averaged
+    /// conductivity of the soil layers along the boreholes.
+    #[serde(default)]
+    pub ground_conductivity: Option<Q<Conductivity>>,
+}
+
+/// Where the boreholes stand.
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct LayoutDoc {
+    /// A rectangular grid of boreholes.
+    #[serde(default)]
+    pub rectangle: Option<RectangleDoc>,
+    /// Borehole positions as `[x, y]` pairs (plain numbers in metres).
+    #[serde(default)]
+    pub points: Option<Vec<Vec<Q<Length>>>>,
+}
+
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct RectangleDoc {
+    pub rows: usize,
+    pub columns: usize,
+    /// Distance between neighbouring boreholes, centre to centre.
+    pub spacing: Q<Length>,
+}
+
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct BoreholeDoc {
+    /// Heat-exchanging length H of each borehole (the starting value when sizing).
+    pub active_length: Q<Length>,
+    /// Depth of the top of the active length below the surface (default 0).
+    #[serde(default)]
+    pub top_depth: Option<Q<Length>>,
+    /// Drilled diameter.
+    pub diameter: Q<Length>,
+}
+
+/// The pipes in a borehole; `type` says which.
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(tag = "type", rename_all = "kebab-case", deny_unknown_fields)]
+pub enum HeatExchangerDoc {
+    /// One U-tube: a downward and an upward leg.
+    SingleU {
+        pipe: LoopPipeDoc,
+        /// Distance between the centres of the two legs.
+        shank_spacing: Q<Length>,
+        /// Conductivity of the grout (backfill) in the borehole.
+        grout_conductivity: Q<Conductivity>,
+        /// A measured effective borehole resistance; replaces the calculated one.
+        #[serde(default)]
+        borehole_resistance: Option<Q<LinearResistance>>,
+    },
+    /// Two U-tubes in parallel, sharing the flow equally.
+    DoubleU {
+        pipe: LoopPipeDoc,
+        /// Distance between the centres of diagonally opposite legs.
+        shank_spacing: Q<Length>,
+        /// Conductivity of the grout (backfill) in the borehole.
+        grout_conductivity: Q<Conductivity>,
+        /// How the legs are joined: `diagonal` (default: the two downward legs side by side) or
+        /// `adjacent`.
+        #[serde(default)]
+        pairing: Option<PairingDoc>,
+        /// A measured effective borehole resistance; replaces the calculated one.
+        #[serde(default)]
+        borehole_resistance: Option<Q<LinearResistance>>,
+    },
+    /// An inner pipe centred in an outer pipe; one stream in the inner pipe, the other in the
+    /// annulus.
+    Coaxial {
+        inner_pipe: LoopPipeDoc,
+        outer_pipe: LoopPipeDoc,
+        /// Conductivity of the grout between the outer pipe and the borehole wall.
+        grout_conductivity: Q<Conductivity>,
+        /// A measured effective borehole resistance; replaces the calculated one.
+        #[serde(default)]
+        borehole_resistance: Option<Q<LinearResistance>>,
+    },
+}
+
+#[derive(Clone, Copy, Debug, Deserialize, JsonSchema)]
+#[serde(rename_all = "kebab-case")]
+pub enum PairingDoc {
+    Diagonal,
+    Adjacent,
+}
+
+/// A loop pipe.
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct LoopPipeDoc {
+    pub outer_diameter: Q<Length>,
+    /// Wall thickness.
+    pub wall: Q<Length>,
+    /// Conductivity of the pipe material (PE 100 about 0.4 W/(m K)).
+    pub conductivity: Q<Conductivity>,
+    /// Absolute roughness of the inner surface (default 1.5 µm, smooth plastic).
+    #[serde(default)]
+    pub roughness: Option<Q<Length>>,
+}
+
+/// The heat-carrier fluid.
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct BoreFluidDoc {
+    /// `water`, `propylene-glycol`, `ethylene-glycol` or `ethanol` (see `burrow materials`).
+    pub mixture: String,
+    /// Mass fraction of the additive (e.g. `25 %`); 0 or absent for water.
+    #[serde(default)]
+    pub concentration: Option<Q<Fraction>>,
+    /// Volume flow through one borehole (all its circuits together).
+    pub flow_per_borehole: Q<VolumeFlow>,
+}
+
+/// Heat exchanged with the ground by the whole field.
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct LoadsDoc {
+    /// Ground-side monthly energies and peaks.
+    #[serde(default)]
+    pub monthly: Option<MonthlyLoadsDoc>,
+    /// Building-side monthly energies and peaks, turned into ground loads with the heat pump's
+    /// COP and EER: extracted = heating·(1 − 1/COP), injected = cooling·(1 + 1/EER).
+    #[serde(default)]
+    pub building: Option<BuildingLoadsDoc>,
+    /// A CSV file of 8760 hourly ground loads in W (first column; an optional header row;
+    /// positive = extracted from the ground), repeated every year. Path relative to the site
+    /// file.
+    #[serde(default)]
+    pub hourly: Option<String>,
+    /// One load for the whole design life (positive = extracted from the ground).
+    #[serde(default)]
+    pub constant: Option<Q<Power>>,
+}
+
+/// Monthly ground loads, January first.
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct MonthlyLoadsDoc {
+    /// Heat taken from the ground each month (12 values; plain numbers in kWh).
+    #[schemars(length(min = 12, max = 12))]
+    pub extracted: Vec<Q<Energy>>,
+    /// Heat rejected to the ground each month (12 values; plain numbers in kWh).
+    #[schemars(length(min = 12, max = 12))]
+    pub injected: Vec<Q<Energy>>,
+    /// Peak extraction of each month (12 values); default: no peak above the monthly mean.
+    #[serde(default)]
+    #[schemars(length(min = 12, max = 12))]
+    pub peak_extraction: Option<Vec<Q<Power>>>,
+    /// Peak injection of each month (12 values); default: no peak above the monthly mean.
+    #[serde(default)]
+    #[schemars(length(min = 12, max = 12))]
+    pub peak_injection: Option<Vec<Q<Power>>>,
+    /// How long each peak lasts (default 6 h).
+    #[serde(default)]
+    pub peak_hours: Option<Q<Time>>,
+}
+
+/// Monthly building loads, January first.
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct BuildingLoadsDoc {
+    /// Heat delivered to the building each month (12 values; plain numbers in kWh).
+    #[schemars(length(min = 12, max = 12))]
+    pub heating: Vec<Q<Energy>>,
+    /// Heat removed from the building each month (12 values; plain numbers in kWh).
+    #[schemars(length(min = 12, max = 12))]
+    pub cooling: Vec<Q<Energy>>,
+    /// Peak heating of each month (12 values); default: no peak above the mean.
+    #[serde(default)]
+    #[schemars(length(min = 12, max = 12))]
+    pub peak_heating: Option<Vec<Q<Power>>>,
+    /// Peak cooling of each month (12 values); default: no peak above the mean.
+    #[serde(default)]
+    #[schemars(length(min = 12, max = 12))]
+    pub peak_cooling: Option<Vec<Q<Power>>>,
+    /// Seasonal coefficient of performance of the heat pump in heating.
+    pub cop: f64,
+    /// Seasonal energy-efficiency ratio in cooling (give any positive value when there is no
+    /// cooling).
+    pub eer: f64,
+    /// How long each peak lasts (default 6 h).
+    #[serde(default)]
+    pub peak_hours: Option<Q<Time>>,
+}
+
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct LimitsDoc {
+    /// Lowest acceptable mean fluid temperature.
+    pub min_fluid: Q<Temperature>,
+    /// Highest acceptable mean fluid temperature.
+    pub max_fluid: Q<Temperature>,
+}
+
+#[derive(Clone, Copy, Debug, Deserialize, JsonSchema)]
+#[serde(rename_all = "kebab-case")]
+pub enum WallConditionDoc {
+    UniformTemperature,
+    UniformHeatFlux,
+}
+
+#[derive(Clone, Copy, Debug, Deserialize, JsonSchema)]
+pub enum SizeDoc {
+    /// Find the active length H.
+    #[serde(rename = "active_length")]
+    ActiveLength,
+}
+
+pub fn validate(doc: &BorefieldDoc, path: &KeyPath, v: &mut Validator) -> Option<Borefield> {
+    let layout = layout(&doc.layout, &path.key("layout"), v);
+    let bp = path.key("borehole");
+    let length = v.positive_q(&doc.borehole.active_length, &bp.key("active_length"), "the active length");
+    v.plausible(length, (10.0, 500.0), &bp.key("active_length"), "an active length", "m");
+    let top = match &doc.borehole.top_depth {
+        None => Some(0.0),
+        Some(q) => {
+            let d = v.q(q, &bp.key("top_depth"));
+            v.within(d, (0.0, 100.0), &bp.key("top_depth"), "the top depth in metres")
+        }
+    };
+    let diameter = v.positive_q(&doc.borehole.diameter, &bp.key("diameter"), "the borehole diameter");
+    v.plausible(diameter, (0.075, 0.3), &bp.key("diameter"), "a borehole diameter", "m");
+    let exchanger = heat_exchanger(&doc.heat_exchanger, diameter, &path.key("heat_exchanger"), v);
+    let fluid = fluid(&doc.fluid, &path.key("fluid"), v);
+    let fp = path.key("fluid").key("flow_per_borehole");
+    let flow = v.positive_q(&doc.fluid.flow_per_borehole, &fp, "the flow per borehole");
+    v.plausible(flow.map(|f| f * 1000.0), (0.05, 3.0), &fp, "a flow per borehole", "l/s");
+    let loads = loads(&doc.loads, &path.key("loads"), v);
+    let lp = path.key("limits");
+    let min_fluid = v.q(&doc.limits.min_fluid, &lp.key("min_fluid"));
+    let max_fluid = v.q(&doc.limits.max_fluid, &lp.key("max_fluid"));
+    if let (Some(lo), Some(hi)) = (min_fluid, max_fluid)
+        && lo >= hi
+    {
+        v.out.error(
+            &lp.key("max_fluid"),
+            format!("the highest fluid temperature ({hi} °C) must lie above the lowest ({lo} °C)"),
+        );
+        return None;
+    }
+    if let (Some(f), Some(lo)) = (fluid, min_fluid) {
+        let freezing = f.freezing_point_c();
+        if lo <= freezing {
+            v.out.error(
+                &lp.key("min_fluid"),
+                format!(
+                    "the lowest fluid temperature {lo} °C is at or below the freezing point of the fluid ({freezing:.1} °C); raise the limit or the antifreeze concentration"
+                ),
+            );
+            return None;
+        }
+        if let Some(hi) = max_fluid
+            && let Err(e) = f.check_temperature(hi)
+        {
+            v.out.error(&lp.key("max_fluid"), e);
+            return None;
+        }
+    }
+    let life = design_life(&doc.design_life, &path.key("design_life"), v);
+    let segments = match doc.segments {
+        None => Some(WallCondition::DEFAULT_SEGMENTS),
+        Some(n) if (1..=WallCondition::MAX_SEGMENTS).contains(&n) => Some(n),
+        Some(n) => {
+            v.out.error(
+                &path.key("segments"),
+                format!(
+                    "{n} segments per borehole are not allowed; give 1 to {}",
+                    WallCondition::MAX_SEGMENTS
+                ),
+            );
+            None
+        }
+    };
+    let pump = match &doc.pump_efficiency {
+        None => Some(DEFAULT_PUMP_EFFICIENCY),
+        Some(q) => {
+            let e = v.q(q, &path.key("pump_efficiency"));
+            v.within(e, (0.05, 1.0), &path.key("pump_efficiency"), "the pump efficiency")
+        }
+    };
+    let ground_k = match &doc.ground_conductivity {
+        None => Some(None),
+        Some(q) => {
+            let k = v.positive_q(q, &path.key("ground_conductivity"), "the ground conductivity");
+            v.plausible(k, (0.3, 7.0), &path.key("ground_conductivity"), "a ground conductivity", "W/(m K)");
+            k.map(Some)
+        }
+    };
+    let (positions, description) = layout?;
+    let (exchanger, grout, measured) = exchanger?;
+    if let (Some(d), Some(s)) = (diameter, min_spacing(&positions))
+        && s <= d
+    {
+        v.out.error(
+            &path.key("layout"),
+            format!(
+                "two boreholes stand {s:.3} m apart, closer than the borehole diameter {d:.3} m; move them apart"
+            ),
+        );
+        return None;
+    }
+    Some(Borefield {
+        positions_m: positions,
+        layout_description: description,
+        active_length_m: length?,
+        top_depth_m: top?,
+        borehole_radius_m: diameter? / 2.0,
+        exchanger,
+        grout_conductivity_w_m_k: grout,
+        measured_resistance_m_k_w: measured,
+        fluid: fluid?,
+        flow_per_borehole_m3_s: flow?,
+        loads: loads?,
+        min_fluid_c: min_fluid?,
+        max_fluid_c: max_fluid?,
+        design_life_months: life?,
+        wall_condition: match doc.wall_condition {
+            None | Some(WallConditionDoc::UniformTemperature) => BoreholeWall::UniformTemperature,
+            Some(WallConditionDoc::UniformHeatFlux) => BoreholeWall::UniformHeatFlux,
+        },
+        size: doc.size.is_some(),
+        segments: segments?,
+        pump_efficiency: pump?,
+        ground_conductivity_w_m_k: ground_k?,
+    })
+}
+
+fn min_spacing(points: &[(f64, f64)]) -> Option<f64> {
+    let mut best: Option<f64> = None;
+    for (i, a) in points.iter().enumerate() {
+        for b in &points[i + 1..] {
+            let d = (a.0 - b.0).hypot(a.1 - b.1);
+            best = Some(best.map_or(d, |x: f64| x.min(d)));
+        }
+    }
+    best
+}
+
+fn layout(doc: &LayoutDoc, path: &KeyPath, v: &mut Validator) -> Option<(Vec<(f64, f64)>, String)> {
+    match (&doc.rectangle, &doc.points) {
+        (Some(r), None) => {
+            let p = path.key("rectangle");
+            let spacing = v.positive_q(&r.spacing, &p.key("spacing"), "the borehole spacing");
+            v.plausible(spacing, (3.0, 20.0), &p.key("spacing"), "a borehole spacing", "m");
+            for (key, n) in [("rows", r.rows), ("columns", r.columns)] {
+                if !(1..=50).contains(&n) {
+                    v.out.error(
+                        &p.key(key),
+                        format!("{n} {key} are not allowed; give 1 to 50"),
+                    );
+                    return None;
+                }
+            }
+            let s = spacing?;
+            let positions = (0..r.rows)
+                .flat_map(|i| (0..r.columns).map(move |j| (j as f64 * s, i as f64 * s)))
+                .collect();
+            Some((
+                positions,
+                format!("{} × {} rectangle, {} m spacing", r.rows, r.columns, crate::site::validate::round_sig(s)),
+            ))
+        }
+        (None, Some(points)) => {
+            let p = path.key("points");
+            if points.is_empty() || points.len() > 2500 {
+                v.out.error(&p, format!("{} points were given; give 1 to 2500 boreholes", points.len()));
+                return None;
+            }
+            let mut out = Vec::with_capacity(points.len());
+            let mut ok = true;
+            for (i, xy) in points.iter().enumerate() {
+                let pi = p.index(i);
+                if xy.len() != 2 {
+                    v.out.error(&pi, format!("a point is a pair [x, y], but {} values were given", xy.len()));
+                    ok = false;
+                    continue;
+                }
+                match (v.q(&xy[0], &pi.index(0)), v.q(&xy[1], &pi.index(1))) {
+                    (Some(x), Some(y)) => out.push((x, y)),
+                    _ => ok = false,
+                }
+            }
+            ok.then(|| {
+                let n = out.len();
+                (out, format!("{n} boreholes at given points"))
+            })
+        }
+        _ => {
+            v.out.error(
+                path,
+                "give exactly one of `rectangle` (rows, columns, spacing) or `points` (a list of [x, y])",
+            );
+            None
+        }
+    }
+}
+
+fn loop_pipe(doc: &LoopPipeDoc, path: &KeyPath, v: &mut Validator) -> Option<LoopPipe> {
+    let d = v.positive_q(&doc.outer_diameter, &path.key("outer_diameter"), "the pipe's outer diameter");
+    let wall = v.positive_q(&doc.wall, &path.key("wall"), "the pipe wall");
+    let k = v.positive_q(&doc.conductivity, &path.key("conductivity"), "the pipe conductivity");
+    let roughness = match &doc.roughness {
+        None => Some(DEFAULT_PIPE_ROUGHNESS_M),
+        Some(q) => {
+            let r = v.q(q, &path.key("roughness"));
+            v.within(r, (0.0, 0.005), &path.key("roughness"), "the roughness in metres")
+        }
+    };
+    let (d, wall) = (d?, wall?);
+    if 2.0 * wall >= d {
+        v.out.error(
+            &path.key("wall"),
+            format!("a wall of {wall} m leaves no bore in a pipe of {d} m outer diameter; the wall must be thinner than the radius"),
+        );
+        return None;
+    }
+    Some(LoopPipe {
+        outer_diameter_m: d,
+        wall_m: wall,
+        conductivity_w_m_k: k?,
+        roughness_m: roughness?,
+    })
+}
+
+type Exchanger = (HeatExchanger, f64, Option<f64>);
+
+fn heat_exchanger(
+    doc: &HeatExchangerDoc,
+    borehole_diameter: Option<f64>,
+    path: &KeyPath,
+    v: &mut Validator,
+) -> Option<Exchanger> {
+    let grout_of = |q: &Q<Conductivity>, v: &mut Validator| {
+        let k = v.positive_q(q, &path.key("grout_conductivity"), "the grout conductivity");
+        v.plausible(k, (0.5, 3.5), &path.key("grout_conductivity"), "a grout conductivity", "W/(m K)");
+        k
+    };
+    let measured_of = |q: &Option<Q<LinearResistance>>, v: &mut Validator| match q {
+        None => Some(None),
+        Some(q) => {
+            let r = v.positive_q(q, &path.key("borehole_resistance"), "the borehole resistance");
+            v.plausible(r, (0.03, 0.5), &path.key("borehole_resistance"), "a borehole resistance", "m K/W");
+            r.map(Some)
+        }
+    };
+    let fits = |pipe: &LoopPipe, shank: f64, legs_apart: f64, v: &mut Validator| -> bool {
+        let mut ok = true;
+        if legs_apart <= pipe.outer_diameter_m {
+            v.out.error(
+                &path.key("shank_spacing"),
+                format!(
+                    "legs {legs_apart:.4} m apart overlap: pipes of {} m outer diameter need their centres at least one diameter apart",
+                    pipe.outer_diameter_m
+                ),
+            );
+            ok = false;
+        }
+        if let Some(db) = borehole_diameter
+            && shank + pipe.outer_diameter_m >= db
+        {
+            v.out.error(
+                &path.key("shank_spacing"),
+                format!(
+                    "the legs reach beyond the borehole wall: shank spacing plus pipe diameter is {:.4} m in a borehole of {db} m",
+                    shank + pipe.outer_diameter_m
+                ),
+            );
+            ok = false;
+        }
+        ok
+    };
+    match doc {
+        HeatExchangerDoc::SingleU {
+            pipe,
+            shank_spacing,
+            grout_conductivity,
+            borehole_resistance,
+        } => {
+            let pipe = loop_pipe(pipe, &path.key("pipe"), v);
+            let shank = v.positive_q(shank_spacing, &path.key("shank_spacing"), "the shank spacing");
+            let grout = grout_of(grout_conductivity, v);
+            let measured = measured_of(borehole_resistance, v);
+            let (pipe, shank) = (pipe?, shank?);
+            fits(&pipe, shank, shank, v).then_some(())?;
+            Some((
+                HeatExchanger::SingleU {
+                    pipe,
+                    shank_spacing_m: shank,
+                },
+                grout?,
+                measured?,
+            ))
+        }
+        HeatExchangerDoc::DoubleU {
+            pipe,
+            shank_spacing,
+            grout_conductivity,
+            pairing,
+            borehole_resistance,
+        } => {
+            let pipe = loop_pipe(pipe, &path.key("pipe"), v);
+            let shank = v.positive_q(shank_spacing, &path.key("shank_spacing"), "the shank spacing");
+            let grout = grout_of(grout_conductivity, v);
+            let measured = measured_of(borehole_resistance, v);
+            let (pipe, shank) = (pipe?, shank?);
+            // Neighbouring legs of a double U are √2·(s/2) apart.
+            fits(&pipe, shank, shank / std::f64::consts::SQRT_2, v).then_some(())?;
+            Some((
+                HeatExchanger::DoubleU {
+                    pipe,
+                    shank_spacing_m: shank,
+                    pairing: match pairing {
+                        None | Some(PairingDoc::Diagonal) => DoubleUPairing::Diagonal,
+                        Some(PairingDoc::Adjacent) => DoubleUPairing::Adjacent,
+                    },
+                },
+                grout?,
+                measured?,
+            ))
+        }
+        HeatExchangerDoc::Coaxial {
+            inner_pipe,
+            outer_pipe,
+            grout_conductivity,
+            borehole_resistance,
+        } => {
+            let inner = loop_pipe(inner_pipe, &path.key("inner_pipe"), v);
+            let outer = loop_pipe(outer_pipe, &path.key("outer_pipe"), v);
+            let grout = grout_of(grout_conductivity, v);
+            let measured = measured_of(borehole_resistance, v);
+            let (inner, outer) = (inner?, outer?);
+            if inner.outer_diameter_m >= outer.inner_diameter_m() {
+                v.out.error(
+                    &path.key("inner_pipe").key("outer_diameter"),
+                    format!(
+                        "the inner pipe ({} m outside) does not fit in the outer pipe's bore ({:.4} m)",
+                        inner.outer_diameter_m,
+                        outer.inner_diameter_m()
+                    ),
+                );
+                return None;
+            }
+            if let Some(db) = borehole_diameter
+                && outer.outer_diameter_m >= db
+            {
+                v.out.error(
+                    &path.key("outer_pipe").key("outer_diameter"),
+                    format!(
+                        "the outer pipe ({} m) does not fit in the borehole ({db} m)",
+                        outer.outer_diameter_m
+                    ),
+                );
+                return None;
+            }
+            Some((HeatExchanger::Coaxial { inner, outer }, grout?, measured?))
+        }
+    }
+}
+
+fn fluid(doc: &BoreFluidDoc, path: &KeyPath, v: &mut Validator) -> Option<Fluid> {
+    let Some(mixture) = Mixture::from_name(&doc.mixture) else {
+        let names: Vec<&str> = Mixture::all().iter().map(|m| m.name()).collect();
+        v.out.error(
+            &path.key("mixture"),
+            format!("`{}` is not a known fluid; use one of: {}", doc.mixture, names.join(", ")),
+        );
+        return None;
+    };
+    let fraction = match &doc.concentration {
+        None => Some(0.0),
+        Some(q) => v.q(q, &path.key("concentration")),
+    }?;
+    match Fluid::new(mixture, fraction) {
+        Ok(f) => Some(f),
+        Err(e) => {
+            v.out.error(&path.key("concentration"), e);
+            None
+        }
+    }
+}
+
+fn design_life(q: &Q<Time>, path: &KeyPath, v: &mut Validator) -> Option<usize> {
+    let t = v.positive_q(q, path, "the design life")?;
+    let months = t / MONTH_S;
+    if (months - months.round()).abs() > 1e-6 * months.max(1.0) || !(12.0..=1200.0).contains(&months.round()) {
+        v.out.error(
+            path,
+            format!(
+                "a design life of {} months is not allowed; give whole months from 1 to 100 years (e.g. `25 years`)",
+                crate::site::validate::round_sig(months)
+            ),
+        );
+        return None;
+    }
+    Some(months.round() as usize)
+}
+
+fn twelve<D: Dim>(values: &[Q<D>], path: &KeyPath, v: &mut Validator, what: &str) -> Option<[f64; 12]> {
+    if values.len() != 12 {
+        v.out.error(
+            path,
+            format!("give 12 monthly values of {what}, January first; {} were given", values.len()),
+        );
+        return None;
+    }
+    let mut out = [0.0; 12];
+    let mut ok = true;
+    for (i, q) in values.iter().enumerate() {
+        let p = path.index(i);
+        match v.q(q, &p) {
+            Some(x) if x >= 0.0 => out[i] = x,
+            Some(x) => {
+                v.out.error(&p, format!("{what} cannot be negative, but {x} was given"));
+                ok = false;
+            }
+            None => ok = false,
+        }
+    }
+    ok.then_some(out)
+}
+
+fn optional_twelve<D: Dim>(
+    values: &Option<Vec<Q<D>>>,
+    path: &KeyPath,
+    v: &mut Validator,
+    what: &str,
+) -> Option<[f64; 12]> {
+    match values {
+        None => Some([0.0; 12]),
+        Some(list) => twelve(list, path, v, what),
+    }
+}
+
+fn peak_duration(q: &Option<Q<Time>>, path: &KeyPath, v: &mut Validator) -> Option<f64> {
+    match q {
+        None => Some(DEFAULT_PEAK_DURATION_S),
+        Some(q) => {
+            let t = v.q(q, path);
+            v.within(t, (60.0, MONTH_S), path, "the peak duration in seconds")
+        }
+    }
+}
+
+fn loads(doc: &LoadsDoc, path: &KeyPath, v: &mut Validator) -> Option<GroundLoads> {
+    let given = [
+        doc.monthly.is_some(),
+        doc.building.is_some(),
+        doc.hourly.is_some(),
+        doc.constant.is_some(),
+    ]
+    .iter()
+    .filter(|b| **b)
+    .count();
+    if given != 1 {
+        v.out.error(
+            path,
+            format!(
+                "give exactly one of `monthly`, `building`, `hourly` or `constant`; {given} were given"
+            ),
+        );
+        return None;
+    }
+    if let Some(m) = &doc.monthly {
+        let p = path.key("monthly");
+        let extracted = twelve(&m.extracted, &p.key("extracted"), v, "extracted heat");
+        let injected = twelve(&m.injected, &p.key("injected"), v, "injected heat");
+        let pe = optional_twelve(&m.peak_extraction, &p.key("peak_extraction"), v, "peak extraction");
+        let pi = optional_twelve(&m.peak_injection, &p.key("peak_injection"), v, "peak injection");
+        let duration = peak_duration(&m.peak_hours, &p.key("peak_hours"), v);
+        return Some(GroundLoads::Monthly {
+            extracted_j: extracted?,
+            injected_j: injected?,
+            peak_extraction_w: pe?,
+            peak_injection_w: pi?,
+            peak_duration_s: duration?,
+        });
+    }
+    if let Some(b) = &doc.building {
+        let p = path.key("building");
+        let heating = twelve(&b.heating, &p.key("heating"), v, "heating");
+        let cooling = twelve(&b.cooling, &p.key("cooling"), v, "cooling");
+        let ph = optional_twelve(&b.peak_heating, &p.key("peak_heating"), v, "peak heating");
+        let pc = optional_twelve(&b.peak_cooling, &p.key("peak_cooling"), v, "peak cooling");
+        let cop = v.within(Some(b.cop), (1.0, 20.0), &p.key("cop"), "the COP");
+        let eer = v.within(Some(b.eer), (1.0, 40.0), &p.key("eer"), "the EER");
+        let duration = peak_duration(&b.peak_hours, &p.key("peak_hours"), v);
+        return Some(GroundLoads::Building {
+            heating_j: heating?,
+            cooling_j: cooling?,
+            peak_heating_w: ph?,
+            peak_cooling_w: pc?,
+            cop: cop?,
+            eer: eer?,
+            peak_duration_s: duration?,
+        });
+    }
+    if let Some(file) = &doc.hourly {
+        let p = path.key("hourly");
+        return match crate::site::series_file::read_hourly_loads(&v.base_dir.join(file)) {
+            Ok(values) => Some(GroundLoads::Hourly {
+                extracted_w: values,
+                source: file.clone(),
+            }),
+            Err(e) => {
+                v.out.error(&p, e);
+                None
+            }
+        };
+    }
+    let q = doc.constant.as_ref()?;
+    let w = v.q(q, &path.key("constant"))?;
+    Some(GroundLoads::Constant { extracted_w: w })
+}
