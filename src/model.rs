@@ -143,7 +143,7 @@ pub enum StudyKind {
     CrossSection(CrossSection),
     HeatLoss(HeatLoss),
     Frost(Frost),
-    Borefield(Borefield),
+    Borefield(Box<Borefield>),
 }
 
 impl StudyKind {

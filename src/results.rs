@@ -73,7 +73,7 @@ pub enum Figures {
     HeatLoss(HeatLossResult),
     Frost(FrostResult),
     CrossSection(CrossSectionResult),
-    Borefield(BorefieldResult),
+    Borefield(Box<BorefieldResult>),
 }
 
 /// A 2-D temperature field on cell centres, for plots (not serialised into results.json).

@@ -404,7 +404,12 @@ fn unknown_study_kinds_and_missing_kind_keys_are_refused() {
     );
     let o = try_site("kinds", text.as_bytes());
     assert_eq!(o.code, 1);
-    assert!(o.stdout.contains("site.yaml:18:5: error: studies[0].layout: the required key `layout` is missing"), "{}", o.stdout);
+    assert!(
+        o.stdout
+            .contains("site.yaml:18:5: error: studies[0].layout: the required key `layout` is missing"),
+        "{}",
+        o.stdout
+    );
     assert!(o.stdout.contains("site.yaml:21:11: error: studies[1].kind: `sunbathing` is not a known `kind`; use one of: heat-loss, cross-section, frost, borefield"), "{}", o.stdout);
 }
 
@@ -517,28 +522,69 @@ fn the_good_borefield_runs() {
 
 #[test]
 fn borefield_layout_must_be_one_form() {
-    let text = borefield_site("{rectangle: {rows: 2, columns: 2, spacing: 6 m}}", "{rectangle: {rows: 2, columns: 2, spacing: 6 m}, points: [[0, 0]]}");
-    refused("bf-layout", text.as_bytes(), 20, 13, "studies[0].layout", "give exactly one of `rectangle`");
-    let text = borefield_site("{rectangle: {rows: 2, columns: 2, spacing: 6 m}}", "{points: [[0, 0], [0.1, 0]]}");
-    refused("bf-close", text.as_bytes(), 20, 13, "studies[0].layout", "closer than the borehole diameter");
+    let text = borefield_site(
+        "{rectangle: {rows: 2, columns: 2, spacing: 6 m}}",
+        "{rectangle: {rows: 2, columns: 2, spacing: 6 m}, points: [[0, 0]]}",
+    );
+    refused(
+        "bf-layout",
+        text.as_bytes(),
+        20,
+        13,
+        "studies[0].layout",
+        "give exactly one of `rectangle`",
+    );
+    let text = borefield_site(
+        "{rectangle: {rows: 2, columns: 2, spacing: 6 m}}",
+        "{points: [[0, 0], [0.1, 0]]}",
+    );
+    refused(
+        "bf-close",
+        text.as_bytes(),
+        20,
+        13,
+        "studies[0].layout",
+        "closer than the borehole diameter",
+    );
 }
 
 #[test]
 fn borefield_lower_limit_at_the_freezing_point_is_refused() {
     let text = borefield_site("mixture: propylene-glycol, concentration: 25 %", "mixture: water");
-    refused("bf-freeze", text.as_bytes(), 29, 25, "studies[0].limits.min_fluid", "freezing point of the fluid (0.0 °C)");
+    refused(
+        "bf-freeze",
+        text.as_bytes(),
+        29,
+        25,
+        "studies[0].limits.min_fluid",
+        "freezing point of the fluid (0.0 °C)",
+    );
 }
 
 #[test]
 fn borefield_legs_outside_the_borehole_are_refused() {
     let text = borefield_site("shank_spacing: 80 mm", "shank_spacing: 130 mm");
-    refused("bf-shank", text.as_bytes(), 25, 22, "studies[0].heat_exchanger.shank_spacing", "beyond the borehole wall");
+    refused(
+        "bf-shank",
+        text.as_bytes(),
+        25,
+        22,
+        "studies[0].heat_exchanger.shank_spacing",
+        "beyond the borehole wall",
+    );
 }
 
 #[test]
 fn borefield_needs_exactly_one_kind_of_load() {
     let text = borefield_site("loads: {constant: 5 kW}", "loads: {}");
-    refused("bf-noload", text.as_bytes(), 28, 12, "studies[0].loads", "give exactly one of `monthly`");
+    refused(
+        "bf-noload",
+        text.as_bytes(),
+        28,
+        12,
+        "studies[0].loads",
+        "give exactly one of `monthly`",
+    );
 }
 
 #[test]
@@ -549,30 +595,49 @@ fn borefield_hourly_file_is_checked_line_by_line() {
     std::fs::write(dir.join("loads.csv"), "load_w\n100\n200\nabc\n").unwrap();
     let (code, stdout, _) = burrow(&["check", "site.yaml"], &dir);
     assert_eq!(code, 1);
-    assert!(stdout.contains("site.yaml:28:21: error: studies[0].loads.hourly: line 4 of"), "{stdout}");
+    assert!(
+        stdout.contains("site.yaml:28:21: error: studies[0].loads.hourly: line 4 of"),
+        "{stdout}"
+    );
     assert!(stdout.contains("`abc` is not a load in W"), "{stdout}");
     std::fs::write(dir.join("loads.csv"), "100\n200\n").unwrap();
     let (code, stdout, _) = burrow(&["check", "site.yaml"], &dir);
     assert_eq!(code, 1);
-    assert!(stdout.contains("holds 2 hourly values; it needs exactly 8760"), "{stdout}");
+    assert!(
+        stdout.contains("holds 2 hourly values; it needs exactly 8760"),
+        "{stdout}"
+    );
 }
 
 #[test]
 fn borefield_design_life_must_be_whole_months() {
     let text = borefield_site("design_life: 20 years", "design_life: 3 weeks");
-    refused("bf-life", text.as_bytes(), 30, 18, "studies[0].design_life", "whole months from 1 to 100 years");
+    refused(
+        "bf-life",
+        text.as_bytes(),
+        30,
+        18,
+        "studies[0].design_life",
+        "whole months from 1 to 100 years",
+    );
 }
 
 /// Limits no length can meet are found by the run, not the check: exit 1, a sentence naming the
 /// range, and no bundle.
 #[test]
 fn borefield_sizing_that_cannot_meet_the_limits_fails_the_run_cleanly() {
-    let text = borefield_site("loads: {constant: 5 kW}", "loads: {constant: 400 kW}")
-        .replace("design_life: 20 years", "design_life: 20 years\n    size: active_length");
+    let text = borefield_site("loads: {constant: 5 kW}", "loads: {constant: 400 kW}").replace(
+        "design_life: 20 years",
+        "design_life: 20 years\n    size: active_length",
+    );
     let dir = scratch("bf-unmeetable");
     std::fs::write(dir.join("site.yaml"), &text).unwrap();
     let (code, _, stderr) = burrow(&["run", "site.yaml", "--out", "bundle"], &dir);
     assert_eq!(code, 1, "{stderr}");
-    assert!(stderr.contains("no active length from 20 to 400 m keeps the mean fluid temperature within its limits"), "{stderr}");
+    assert!(
+        stderr
+            .contains("no active length from 20 to 400 m keeps the mean fluid temperature within its limits"),
+        "{stderr}"
+    );
     assert!(!dir.join("bundle").exists());
 }

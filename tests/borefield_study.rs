@@ -90,19 +90,30 @@ fn constant_load_ends_at_the_g_function_closed_form() {
     ));
     let r = run(&text);
     let b = borefield(&r, 0);
-    assert!((b.ground.undisturbed_c - T0).abs() < 1e-9, "{}", b.ground.undisturbed_c);
+    assert!(
+        (b.ground.undisturbed_c - T0).abs() < 1e-9,
+        "{}",
+        b.ground.undisturbed_c
+    );
     assert_eq!(b.borehole_resistance_m_k_per_w, 0.1);
     let q = power / length;
     for months in [1usize, 12, 36] {
         let t = months as f64 * MONTH_S;
         let expected = T0 - q / (2.0 * PI * K) * g_at(length, t) - q * 0.1;
         let got = b.months[months - 1].mean_c;
-        assert!((got - expected).abs() < 0.005, "month {months}: {got} vs {expected}");
+        assert!(
+            (got - expected).abs() < 0.005,
+            "month {months}: {got} vs {expected}"
+        );
     }
     // Inlet colder than the mean by Q/(2 ṁ c_p), ṁ c_p at the lower limit (−3 °C).
     let capacity = b.fluid.density_kg_m3 * 0.5e-3 * b.fluid.specific_heat_j_kg_k;
     let inlet = b.months[35].mean_c - power / (2.0 * capacity);
-    assert!((b.coldest_fluid_c - inlet).abs() < 1e-9, "{} vs {inlet}", b.coldest_fluid_c);
+    assert!(
+        (b.coldest_fluid_c - inlet).abs() < 1e-9,
+        "{} vs {inlet}",
+        b.coldest_fluid_c
+    );
 }
 
 /// The same constant load as an hourly file: the FFT convolution of hourly steps must reproduce
@@ -117,10 +128,16 @@ fn hourly_constant_load_matches_the_monthly_path() {
     std::fs::write(dir.path().join("loads.csv"), csv).unwrap();
     let tail = "    design_life: 2 years\n    wall_condition: uniform-heat-flux\n";
     let hourly = run_in(
-        &site_text(&format!("{}{tail}", study(ONE, 120.0, "{hourly: loads.csv}", MEASURED))),
+        &site_text(&format!(
+            "{}{tail}",
+            study(ONE, 120.0, "{hourly: loads.csv}", MEASURED)
+        )),
         dir.path(),
     );
-    let monthly = run(&site_text(&format!("{}{tail}", study(ONE, 120.0, "{constant: 4 kW}", MEASURED))));
+    let monthly = run(&site_text(&format!(
+        "{}{tail}",
+        study(ONE, 120.0, "{constant: 4 kW}", MEASURED)
+    )));
     let (h, m) = (borefield(&hourly, 0), borefield(&monthly, 0));
     for k in [0usize, 5, 23] {
         // The hourly month row holds the minimum over the month: the month's last hour.
@@ -148,12 +165,25 @@ fn building_loads_become_ground_loads_by_cop_and_eer() {
         eer: 4";
     let text = site_text(&format!(
         "{}    design_life: 1 year\n",
-        study("{rectangle: {rows: 2, columns: 2, spacing: 8 m}}", 150.0, loads, "")
+        study(
+            "{rectangle: {rows: 2, columns: 2, spacing: 8 m}}",
+            150.0,
+            loads,
+            ""
+        )
     ));
     let r = run(&text);
     let b = borefield(&r, 0);
-    assert!((b.annual_loads.extracted_mwh - 75.0).abs() < 1e-9, "{}", b.annual_loads.extracted_mwh);
-    assert!((b.annual_loads.injected_mwh - 50.0).abs() < 1e-9, "{}", b.annual_loads.injected_mwh);
+    assert!(
+        (b.annual_loads.extracted_mwh - 75.0).abs() < 1e-9,
+        "{}",
+        b.annual_loads.extracted_mwh
+    );
+    assert!(
+        (b.annual_loads.injected_mwh - 50.0).abs() < 1e-9,
+        "{}",
+        b.annual_loads.injected_mwh
+    );
     assert_eq!(
         burrow::studies::borefield::ground_from_building(100.0, 40.0, 4.0, 4.0),
         (75.0, 50.0)
@@ -182,7 +212,11 @@ fn peak_pulse_lowers_the_fluid_by_the_short_step_response() {
     assert!((mean_w - 10_000.0).abs() < 1e-6);
     let drop = (25_000.0 - mean_w) / length * (g_at(length, 4.0 * 3600.0) / (2.0 * PI * K) + 0.1);
     let jan = b.months[0];
-    assert!(((jan.mean_c - jan.min_c) - drop).abs() < 0.01, "{} vs {drop}", jan.mean_c - jan.min_c);
+    assert!(
+        ((jan.mean_c - jan.min_c) - drop).abs() < 0.01,
+        "{} vs {drop}",
+        jan.mean_c - jan.min_c
+    );
     // No peak in the other months: their range collapses to the mean.
     assert!((b.months[5].mean_c - b.months[5].min_c).abs() < 1e-12);
 }
@@ -212,7 +246,12 @@ fn sizing_study(scale: f64) -> String {
     );
     site_text(&format!(
         "{}    design_life: 20 years\n    size: active_length\n",
-        study("{rectangle: {rows: 4, columns: 5, spacing: 6 m}}", 150.0, &loads, "")
+        study(
+            "{rectangle: {rows: 4, columns: 5, spacing: 6 m}}",
+            150.0,
+            &loads,
+            ""
+        )
     ))
 }
 
@@ -223,25 +262,32 @@ fn sized_length_meets_the_governing_limit_and_grows_with_the_load() {
     let r = run(&sizing_study(1.0));
     let b = borefield(&r, 0);
     assert_eq!(b.governing_limit.as_deref(), Some("min_fluid"));
-    assert!((b.fluid_temperature.min_c - (-3.0)).abs() < 0.1, "{}", b.fluid_temperature.min_c);
+    assert!(
+        (b.fluid_temperature.min_c - (-3.0)).abs() < 0.1,
+        "{}",
+        b.fluid_temperature.min_c
+    );
+    let sized_text = sizing_study(1.0);
+    let loads = sized_text
+        .split("loads: ")
+        .nth(1)
+        .and_then(|rest| rest.split("\n    limits").next())
+        .unwrap();
     let recheck = site_text(&format!(
         "{}    design_life: 20 years\n",
         study(
             "{rectangle: {rows: 4, columns: 5, spacing: 6 m}}",
             b.active_length_m,
-            &sizing_study(1.0)
-                .split("loads: ")
-                .nth(1)
-                .unwrap()
-                .split("\n    limits")
-                .next()
-                .unwrap()
-                .to_string(),
+            loads,
             ""
         )
     ));
     let again = borefield(&run(&recheck), 0).fluid_temperature.min_c;
-    assert!((again + 3.0).abs() < 0.1, "re-run at {:.2} m gives {again} °C", b.active_length_m);
+    assert!(
+        (again + 3.0).abs() < 0.1,
+        "re-run at {:.2} m gives {again} °C",
+        b.active_length_m
+    );
     let more = borefield(&run(&sizing_study(1.3)), 0).active_length_m;
     assert!(more > b.active_length_m + 5.0, "{more} vs {}", b.active_length_m);
 }
@@ -317,7 +363,11 @@ fn laminar_flow_is_a_caution() {
     let r = run(&text);
     let b = borefield(&r, 0);
     assert!(b.fluid.reynolds < 2300.0 && b.fluid.flow_regime == "laminar");
-    assert!(r.warnings.iter().any(|w| w.code == "borefield.laminar_flow" && w.level == Level::Caution));
+    assert!(
+        r.warnings
+            .iter()
+            .any(|w| w.code == "borefield.laminar_flow" && w.level == Level::Caution)
+    );
 }
 
 /// Pressure drop of a single-U loop against Darcy–Weisbach with the Blasius smooth-pipe friction
@@ -340,7 +390,8 @@ fn loop_pressure_drop_matches_darcy_weisbach_with_blasius() {
     // Water near the coldest fluid temperature (the study reports its Reynolds number there).
     let d = 0.0326;
     let area = PI / 4.0 * d * d;
-    let fluid = burrow::materials::fluids::Fluid::new(burrow::materials::fluids::Mixture::Water, 0.0).unwrap();
+    let fluid =
+        burrow::materials::fluids::Fluid::new(burrow::materials::fluids::Mixture::Water, 0.0).unwrap();
     let t = b.coldest_fluid_c.max(0.0);
     // The mass flow is fixed by the volume flow at the lower limit (6 °C).
     let mass_flow = fluid.density_kg_m3(6.0) * 0.6e-3;
@@ -364,11 +415,20 @@ fn loop_pressure_drop_matches_darcy_weisbach_with_blasius() {
 fn unbalanced_extraction_cools_the_ground_year_after_year() {
     let text = site_text(&format!(
         "{}    design_life: 10 years\n",
-        study("{rectangle: {rows: 3, columns: 3, spacing: 5 m}}", 100.0, "{constant: 20 kW}", MEASURED)
+        study(
+            "{rectangle: {rows: 3, columns: 3, spacing: 5 m}}",
+            100.0,
+            "{constant: 20 kW}",
+            MEASURED
+        )
     ));
     let r = run(&text);
     let b = borefield(&r, 0);
-    assert!(b.ground_temperature_drift_k < -0.5, "{}", b.ground_temperature_drift_k);
+    assert!(
+        b.ground_temperature_drift_k < -0.5,
+        "{}",
+        b.ground_temperature_drift_k
+    );
     assert!(b.fluid_temperature.last_year_min_c < b.fluid_temperature.first_year_min_c);
     let g = &b.g_function;
     assert!(g.windows(2).all(|w| w[1].g > w[0].g), "g must grow with time");

@@ -15,8 +15,14 @@ const MONTH_NAMES: [&str; 12] = [
 
 fn limit_lines(b: &BorefieldResult) -> Vec<(f64, String)> {
     vec![
-        (b.limits.min_fluid_c, format!("lower limit {} °C", b.limits.min_fluid_c)),
-        (b.limits.max_fluid_c, format!("upper limit {} °C", b.limits.max_fluid_c)),
+        (
+            b.limits.min_fluid_c,
+            format!("lower limit {} °C", b.limits.min_fluid_c),
+        ),
+        (
+            b.limits.max_fluid_c,
+            format!("upper limit {} °C", b.limits.max_fluid_c),
+        ),
     ]
 }
 
@@ -60,7 +66,10 @@ pub fn figures(s: &StudyResult, b: &BorefieldResult) -> Result<Vec<Figure>, Stri
     };
     let n = b.months.len();
     let month_series = |rows: &[crate::results::FluidMonth], f: fn(&crate::results::FluidMonth) -> f64| {
-        rows.iter().enumerate().map(|(i, m)| (i as f64 + 1.0, f(m))).collect::<Vec<_>>()
+        rows.iter()
+            .enumerate()
+            .map(|(i, m)| (i as f64 + 1.0, f(m)))
+            .collect::<Vec<_>>()
     };
     let first = &b.months[..12.min(n)];
     let last = &b.months[n.saturating_sub(12)..];
@@ -171,8 +180,15 @@ pub fn section(h: &mut String, b: &BorefieldResult) {
             esc(&b.borehole_resistance_source)
         ),
     );
-    if let (Some(rb), Some(ra)) = (b.local_borehole_resistance_m_k_per_w, b.internal_resistance_m_k_per_w) {
-        row(h, "Local R_b; internal R_a", format!("{rb:.4} m K/W; {ra:.4} m K/W"));
+    if let (Some(rb), Some(ra)) = (
+        b.local_borehole_resistance_m_k_per_w,
+        b.internal_resistance_m_k_per_w,
+    ) {
+        row(
+            h,
+            "Local R_b; internal R_a",
+            format!("{rb:.4} m K/W; {ra:.4} m K/W"),
+        );
     }
     row(
         h,

@@ -148,7 +148,7 @@ pub enum StudyDoc {
     Frost(super::kinds::frost::FrostDoc),
     /// A field of ground heat exchangers for a heat pump: g-function, borehole resistance, fluid
     /// temperatures over the design life, and length sizing.
-    Borefield(super::kinds::borefield::BorefieldDoc),
+    Borefield(Box<super::kinds::borefield::BorefieldDoc>),
 }
 
 impl StudyDoc {

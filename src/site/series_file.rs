@@ -206,6 +206,55 @@ fn parse_stamp(s: &str) -> Option<(i64, f64)> {
     Some((days_from_civil(y, m, d), secs))
 }
 
+/// Hours in the load file of a borefield: one model year.
+pub const HOURS_PER_YEAR: usize = 8760;
+
+/// Reads a file of 8760 hourly ground loads in W (first column; an optional header row; `#`
+/// comments and blank lines skipped). The error is one sentence that names the file and line.
+pub fn read_hourly_loads(path: &Path) -> Result<Vec<f64>, String> {
+    let name = path.display().to_string();
+    let bytes =
+        std::fs::read(path).map_err(|e| format!("cannot read the load file `{name}`: {}", io_reason(&e)))?;
+    let text = String::from_utf8(bytes).map_err(|_| format!("the load file `{name}` is not UTF-8 text"))?;
+    parse_hourly_loads(&text, &name)
+}
+
+/// [`read_hourly_loads`] on text already read; `name` names the file in messages.
+pub fn parse_hourly_loads(text: &str, name: &str) -> Result<Vec<f64>, String> {
+    let mut values = Vec::with_capacity(HOURS_PER_YEAR);
+    for (i, line) in text.lines().enumerate() {
+        let trimmed = line.trim();
+        if trimmed.is_empty() || trimmed.starts_with('#') {
+            continue;
+        }
+        let first = trimmed.split([',', ';', '\t']).next().unwrap_or("").trim();
+        match first.parse::<f64>() {
+            Ok(v) if v.is_finite() => values.push(v),
+            _ if values.is_empty() && first.parse::<f64>().is_err() && i == first_data_line(text) => {}
+            _ => {
+                return Err(format!(
+                    "line {} of `{name}`: `{first}` is not a load in W (a finite number is needed in the first column; fill gaps before use)",
+                    i + 1
+                ));
+            }
+        }
+    }
+    if values.len() != HOURS_PER_YEAR {
+        return Err(format!(
+            "the load file `{name}` holds {} hourly values; it needs exactly {HOURS_PER_YEAR} (one model year of 365 days)",
+            values.len()
+        ));
+    }
+    Ok(values)
+}
+
+/// Index of the first line that is neither blank nor a `#` comment (where a header may stand).
+fn first_data_line(text: &str) -> usize {
+    text.lines()
+        .position(|l| !l.trim().is_empty() && !l.trim_start().starts_with('#'))
+        .unwrap_or(0)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -260,53 +309,4 @@ mod tests {
         let e = parse(&daily(100), "w.csv", None, TemperatureUnit::Celsius).unwrap_err();
         assert!(e.contains("less than one year"), "{e}");
     }
-}
-
-/// Hours in the load file of a borefield: one model year.
-pub const HOURS_PER_YEAR: usize = 8760;
-
-/// Reads a file of 8760 hourly ground loads in W (first column; an optional header row; `#`
-/// comments and blank lines skipped). The error is one sentence that names the file and line.
-pub fn read_hourly_loads(path: &Path) -> Result<Vec<f64>, String> {
-    let name = path.display().to_string();
-    let bytes =
-        std::fs::read(path).map_err(|e| format!("cannot read the load file `{name}`: {}", io_reason(&e)))?;
-    let text = String::from_utf8(bytes).map_err(|_| format!("the load file `{name}` is not UTF-8 text"))?;
-    parse_hourly_loads(&text, &name)
-}
-
-/// [`read_hourly_loads`] on text already read; `name` names the file in messages.
-pub fn parse_hourly_loads(text: &str, name: &str) -> Result<Vec<f64>, String> {
-    let mut values = Vec::with_capacity(HOURS_PER_YEAR);
-    for (i, line) in text.lines().enumerate() {
-        let trimmed = line.trim();
-        if trimmed.is_empty() || trimmed.starts_with('#') {
-            continue;
-        }
-        let first = trimmed.split([',', ';', '\t']).next().unwrap_or("").trim();
-        match first.parse::<f64>() {
-            Ok(v) if v.is_finite() => values.push(v),
-            _ if values.is_empty() && first.parse::<f64>().is_err() && i == first_data_line(text) => {}
-            _ => {
-                return Err(format!(
-                    "line {} of `{name}`: `{first}` is not a load in W (a finite number is needed in the first column; fill gaps before use)",
-                    i + 1
-                ));
-            }
-        }
-    }
-    if values.len() != HOURS_PER_YEAR {
-        return Err(format!(
-            "the load file `{name}` holds {} hourly values; it needs exactly {HOURS_PER_YEAR} (one model year of 365 days)",
-            values.len()
-        ));
-    }
-    Ok(values)
-}
-
-/// Index of the first line that is neither blank nor a `#` comment (where a header may stand).
-fn first_data_line(text: &str) -> usize {
-    text.lines()
-        .position(|l| !l.trim().is_empty() && !l.trim_start().starts_with('#'))
-        .unwrap_or(0)
 }

@@ -550,7 +550,7 @@ fn study(doc: &StudyDoc, path: &KeyPath, v: &mut Validator) -> Option<Study> {
             Some(Study {
                 id: d.id.clone(),
                 method: m?,
-                kind: StudyKind::Borefield(study?),
+                kind: StudyKind::Borefield(Box::new(study?)),
             })
         }
     }

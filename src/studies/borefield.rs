@@ -26,7 +26,9 @@
 use crate::ground::profile::Undisturbed;
 use crate::materials::fluids::Fluid;
 use crate::model::{Borefield, BoreholeWall, GroundLoads, HeatExchanger, Site, SoilLayer};
-use crate::physics::borehole::{self, BoreholeResistances, Coaxial, DEFAULT_MULTIPOLE_ORDER, DoubleU, SingleU};
+use crate::physics::borehole::{
+    self, BoreholeResistances, Coaxial, DEFAULT_MULTIPOLE_ORDER, DoubleU, SingleU,
+};
 use crate::physics::gfunction::{self, WallCondition, characteristic_time_s};
 use crate::physics::pipe_flow::{
     self, AnnulusWall, ChannelFlow, LAMINAR_LIMIT_RE, LaminarWall, TURBULENT_FROM_RE, TurbulentFriction,
@@ -36,8 +38,8 @@ use crate::physics::superposition::{
     self, BoreholeOperation, FluidTemperatures, MONTH_S, MonthlyLoads, SampledStepResponse,
 };
 use crate::results::{
-    AnnualGroundLoads, BorefieldFluid, BorefieldGround, BorefieldResult, BorefieldSizing, FluidLimits, FluidMonth,
-    FluidTemperatureFigures, GPoint, Level, Warning,
+    AnnualGroundLoads, BorefieldFluid, BorefieldGround, BorefieldResult, BorefieldSizing, FluidLimits,
+    FluidMonth, FluidTemperatureFigures, GPoint, Level, Warning,
 };
 use crate::site::kinds::borefield::SIZING_RANGE_M;
 use std::f64::consts::PI;
@@ -104,6 +106,7 @@ pub struct Design<'a> {
 /// Ground loads of the whole field in a form the superposition uses, W (positive = to the
 /// ground).
 #[derive(Clone, Debug, PartialEq)]
+#[allow(clippy::large_enum_variant)] // one value per study
 pub enum Loads {
     Monthly {
         mean_w: [f64; 12],
@@ -129,8 +132,16 @@ impl Loads {
             let mean: [f64; 12] = std::array::from_fn(|m| (injected[m] - extracted[m]) / MONTH_S);
             Loads::Monthly {
                 mean_w: mean,
-                extraction_peak_w: std::array::from_fn(|m| if pe[m] > 0.0 { (-pe[m]).min(mean[m]) } else { mean[m] }),
-                injection_peak_w: std::array::from_fn(|m| if pi[m] > 0.0 { pi[m].max(mean[m]) } else { mean[m] }),
+                extraction_peak_w: std::array::from_fn(|m| {
+                    if pe[m] > 0.0 {
+                        (-pe[m]).min(mean[m])
+                    } else {
+                        mean[m]
+                    }
+                }),
+                injection_peak_w: std::array::from_fn(
+                    |m| if pi[m] > 0.0 { pi[m].max(mean[m]) } else { mean[m] },
+                ),
                 peak_duration_s: d,
             }
         };
@@ -159,8 +170,9 @@ impl Loads {
             } => {
                 let energy: [(f64, f64); 12] =
                     std::array::from_fn(|m| ground_from_building(heating_j[m], cooling_j[m], *cop, *eer));
-                let peak: [(f64, f64); 12] =
-                    std::array::from_fn(|m| ground_from_building(peak_heating_w[m], peak_cooling_w[m], *cop, *eer));
+                let peak: [(f64, f64); 12] = std::array::from_fn(|m| {
+                    ground_from_building(peak_heating_w[m], peak_cooling_w[m], *cop, *eer)
+                });
                 monthly(
                     energy.map(|e| e.0),
                     energy.map(|e| e.1),
@@ -169,7 +181,9 @@ impl Loads {
                     *peak_duration_s,
                 )
             }
-            GroundLoads::Hourly { extracted_w, .. } => Loads::Hourly(extracted_w.iter().map(|p| -p).collect()),
+            GroundLoads::Hourly { extracted_w, .. } => {
+                Loads::Hourly(extracted_w.iter().map(|p| -p).collect())
+            }
             GroundLoads::Constant { extracted_w } => Loads::Monthly {
                 mean_w: [-extracted_w; 12],
                 extraction_peak_w: [-extracted_w; 12],
@@ -185,9 +199,9 @@ impl Loads {
             Loads::Monthly { mean_w, .. } => mean_w.iter().fold((0.0, 0.0), |(e, i), q| {
                 (e + (-q).max(0.0) * MONTH_S, i + q.max(0.0) * MONTH_S)
             }),
-            Loads::Hourly(q) => q
-                .iter()
-                .fold((0.0, 0.0), |(e, i), q| (e + (-q).max(0.0) * 3600.0, i + q.max(0.0) * 3600.0)),
+            Loads::Hourly(q) => q.iter().fold((0.0, 0.0), |(e, i), q| {
+                (e + (-q).max(0.0) * 3600.0, i + q.max(0.0) * 3600.0)
+            }),
         };
         AnnualGroundLoads {
             extracted_mwh: extracted_j / 3.6e9,
@@ -237,7 +251,9 @@ pub struct GCurve {
 
 impl GCurve {
     pub fn taus(&self) -> Vec<f64> {
-        (0..self.g.len()).map(|i| self.tau0 + i as f64 * self.dtau).collect()
+        (0..self.g.len())
+            .map(|i| self.tau0 + i as f64 * self.dtau)
+            .collect()
     }
 
     /// g at τ; outside the grid the end value is held (the grid is built to cover every time
@@ -283,7 +299,10 @@ impl Evaluation {
         self.months.iter().map(|m| m.min_c).fold(f64::INFINITY, f64::min)
     }
     pub fn max_c(&self) -> f64 {
-        self.months.iter().map(|m| m.max_c).fold(f64::NEG_INFINITY, f64::max)
+        self.months
+            .iter()
+            .map(|m| m.max_c)
+            .fold(f64::NEG_INFINITY, f64::max)
     }
 }
 
@@ -440,7 +459,9 @@ impl<'a> Design<'a> {
                 injection_peak_w,
                 peak_duration_s,
             } => {
-                let series = |values: &[f64; 12]| -> Vec<f64> { (0..months).map(|m| values[m % 12] * per_metre).collect() };
+                let series = |values: &[f64; 12]| -> Vec<f64> {
+                    (0..months).map(|m| values[m % 12] * per_metre).collect()
+                };
                 let run = |peaks: &[f64; 12]| {
                     superposition::monthly_fluid_temperatures(
                         &MonthlyLoads {
@@ -567,7 +588,15 @@ fn local_resistances(
     });
     let rb = b.borehole_radius_m;
     match b.exchanger {
-        HeatExchanger::SingleU { pipe, shank_spacing_m } | HeatExchanger::DoubleU { pipe, shank_spacing_m, .. } => {
+        HeatExchanger::SingleU {
+            pipe,
+            shank_spacing_m,
+        }
+        | HeatExchanger::DoubleU {
+            pipe,
+            shank_spacing_m,
+            ..
+        } => {
             let rp = pipe_flow::pipe_resistance_m_k_per_w(
                 &flows.tube,
                 LaminarWall::UniformTemperature,
@@ -600,12 +629,22 @@ fn local_resistances(
         HeatExchanger::Coaxial { inner, outer } => {
             let annulus = flows.annulus.ok_or("a coaxial borehole has an annulus flow")?;
             let h_of = |nu: f64, flow: &ChannelFlow| {
-                pipe_flow::heat_transfer_coefficient_w_m2_k(nu, flow.conductivity_w_m_k, flow.hydraulic_diameter_m)
+                pipe_flow::heat_transfer_coefficient_w_m2_k(
+                    nu,
+                    flow.conductivity_w_m_k,
+                    flow.hydraulic_diameter_m,
+                )
             };
             let ratio = inner.outer_diameter_m / outer.inner_diameter_m();
-            let nu_tube = pipe_flow::nusselt_tube(flows.tube.reynolds, flows.tube.prandtl, LaminarWall::UniformTemperature)?;
-            let nu_in = pipe_flow::nusselt_annulus(annulus.reynolds, annulus.prandtl, ratio, AnnulusWall::Inner)?;
-            let nu_out = pipe_flow::nusselt_annulus(annulus.reynolds, annulus.prandtl, ratio, AnnulusWall::Outer)?;
+            let nu_tube = pipe_flow::nusselt_tube(
+                flows.tube.reynolds,
+                flows.tube.prandtl,
+                LaminarWall::UniformTemperature,
+            )?;
+            let nu_in =
+                pipe_flow::nusselt_annulus(annulus.reynolds, annulus.prandtl, ratio, AnnulusWall::Inner)?;
+            let nu_out =
+                pipe_flow::nusselt_annulus(annulus.reynolds, annulus.prandtl, ratio, AnnulusWall::Outer)?;
             Coaxial {
                 borehole_radius_m: rb,
                 inner_pipe_inner_radius_m: 0.5 * inner.inner_diameter_m(),
@@ -646,7 +685,12 @@ fn hydraulics(b: &Borefield, t_c: f64, mass_flow_kg_s: f64, length_m: f64) -> Re
     };
     Ok(match (&b.exchanger, &flows.annulus) {
         (HeatExchanger::SingleU { pipe, .. } | HeatExchanger::DoubleU { pipe, .. }, _) => Hydraulics {
-            pressure_drop_pa: drop(&flows.tube, pipe.roughness_m, 2.0 * depth, U_BEND_LOSS_COEFFICIENT)?,
+            pressure_drop_pa: drop(
+                &flows.tube,
+                pipe.roughness_m,
+                2.0 * depth,
+                U_BEND_LOSS_COEFFICIENT,
+            )?,
             reynolds: flows.tube.reynolds,
         },
         (HeatExchanger::Coaxial { inner, outer }, Some(annulus)) => Hydraulics {
@@ -753,8 +797,9 @@ impl Design<'_> {
         let b = self.b;
         // Margins: ≥ 0 when the limit is met.
         let margins = |e: &Evaluation| [e.min_c() - b.min_fluid_c, b.max_fluid_c - e.max_c()];
-        let approx =
-            |h: f64| -> Result<[f64; 2], String> { Ok(margins(&self.evaluate(h, &interp.at(h, self.time_scale_s(h)))?)) };
+        let approx = |h: f64| -> Result<[f64; 2], String> {
+            Ok(margins(&self.evaluate(h, &interp.at(h, self.time_scale_s(h)))?))
+        };
         let (lo, hi) = SIZING_RANGE_M;
         let scan: Vec<f64> = (0..=16).map(|i| lo * (hi / lo).powf(i as f64 / 16.0)).collect();
         let scanned = scan.iter().map(|&h| approx(h)).collect::<Result<Vec<_>, _>>()?;
@@ -854,7 +899,10 @@ fn result(
     let first = year(&months[..12]);
     let last = year(&months[months.len() - 12..]);
     let coldest = months.iter().map(|m| m.inlet_min_c).fold(f64::INFINITY, f64::min);
-    let warmest = months.iter().map(|m| m.inlet_max_c).fold(f64::NEG_INFINITY, f64::max);
+    let warmest = months
+        .iter()
+        .map(|m| m.inlet_max_c)
+        .fold(f64::NEG_INFINITY, f64::max);
     let (lo, hi) = b.fluid.valid_temperature_range_c();
     let hydraulic_t = coldest.clamp(lo, hi);
     let hyd = hydraulics(b, hydraulic_t, d.mass_flow_kg_s, length)?;
@@ -960,7 +1008,12 @@ fn result(
             .collect(),
         characteristic_time_years: ts / crate::model::YEAR_S,
         borehole_resistance_m_k_per_w: e.resistance_m_k_per_w,
-        borehole_resistance_source: if d.local.is_some() { "multipole" } else { "measured" }.into(),
+        borehole_resistance_source: if d.local.is_some() {
+            "multipole"
+        } else {
+            "measured"
+        }
+        .into(),
         local_borehole_resistance_m_k_per_w: d.local.map(|l| l.borehole_m_k_per_w),
         internal_resistance_m_k_per_w: d.local.map(|l| l.internal_m_k_per_w),
         active_length_m: length,
@@ -968,7 +1021,12 @@ fn result(
         top_depth_m: b.top_depth_m,
         ground: BorefieldGround {
             conductivity_w_m_k: e.ground.conductivity_w_m_k,
-            conductivity_source: if b.ground_conductivity_w_m_k.is_some() { "measured" } else { "layers" }.into(),
+            conductivity_source: if b.ground_conductivity_w_m_k.is_some() {
+                "measured"
+            } else {
+                "layers"
+            }
+            .into(),
             heat_capacity_j_m3_k: e.ground.heat_capacity_j_m3_k,
             diffusivity_m2_s: e.ground.diffusivity_m2_s(),
             undisturbed_c: e.ground.undisturbed_c,

@@ -31,7 +31,7 @@ pub fn run(study: &Study, site: &Site, ground: &Undisturbed) -> Result<(StudyRes
         }
         StudyKind::Borefield(b) => {
             let (r, w) = borefield::run(&study.id, b, site, ground)?;
-            (Figures::Borefield(r), w)
+            (Figures::Borefield(Box::new(r)), w)
         }
     };
     Ok((

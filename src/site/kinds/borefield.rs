@@ -285,8 +285,18 @@ pub enum SizeDoc {
 pub fn validate(doc: &BorefieldDoc, path: &KeyPath, v: &mut Validator) -> Option<Borefield> {
     let layout = layout(&doc.layout, &path.key("layout"), v);
     let bp = path.key("borehole");
-    let length = v.positive_q(&doc.borehole.active_length, &bp.key("active_length"), "the active length");
-    v.plausible(length, (10.0, 500.0), &bp.key("active_length"), "an active length", "m");
+    let length = v.positive_q(
+        &doc.borehole.active_length,
+        &bp.key("active_length"),
+        "the active length",
+    );
+    v.plausible(
+        length,
+        (10.0, 500.0),
+        &bp.key("active_length"),
+        "an active length",
+        "m",
+    );
     let top = match &doc.borehole.top_depth {
         None => Some(0.0),
         Some(q) => {
@@ -294,13 +304,29 @@ pub fn validate(doc: &BorefieldDoc, path: &KeyPath, v: &mut Validator) -> Option
             v.within(d, (0.0, 100.0), &bp.key("top_depth"), "the top depth in metres")
         }
     };
-    let diameter = v.positive_q(&doc.borehole.diameter, &bp.key("diameter"), "the borehole diameter");
-    v.plausible(diameter, (0.075, 0.3), &bp.key("diameter"), "a borehole diameter", "m");
+    let diameter = v.positive_q(
+        &doc.borehole.diameter,
+        &bp.key("diameter"),
+        "the borehole diameter",
+    );
+    v.plausible(
+        diameter,
+        (0.075, 0.3),
+        &bp.key("diameter"),
+        "a borehole diameter",
+        "m",
+    );
     let exchanger = heat_exchanger(&doc.heat_exchanger, diameter, &path.key("heat_exchanger"), v);
     let fluid = fluid(&doc.fluid, &path.key("fluid"), v);
     let fp = path.key("fluid").key("flow_per_borehole");
     let flow = v.positive_q(&doc.fluid.flow_per_borehole, &fp, "the flow per borehole");
-    v.plausible(flow.map(|f| f * 1000.0), (0.05, 3.0), &fp, "a flow per borehole", "l/s");
+    v.plausible(
+        flow.map(|f| f * 1000.0),
+        (0.05, 3.0),
+        &fp,
+        "a flow per borehole",
+        "l/s",
+    );
     let loads = loads(&doc.loads, &path.key("loads"), v);
     let lp = path.key("limits");
     let min_fluid = v.q(&doc.limits.min_fluid, &lp.key("min_fluid"));
@@ -351,14 +377,25 @@ pub fn validate(doc: &BorefieldDoc, path: &KeyPath, v: &mut Validator) -> Option
         None => Some(DEFAULT_PUMP_EFFICIENCY),
         Some(q) => {
             let e = v.q(q, &path.key("pump_efficiency"));
-            v.within(e, (0.05, 1.0), &path.key("pump_efficiency"), "the pump efficiency")
+            v.within(
+                e,
+                (0.05, 1.0),
+                &path.key("pump_efficiency"),
+                "the pump efficiency",
+            )
         }
     };
     let ground_k = match &doc.ground_conductivity {
         None => Some(None),
         Some(q) => {
             let k = v.positive_q(q, &path.key("ground_conductivity"), "the ground conductivity");
-            v.plausible(k, (0.3, 7.0), &path.key("ground_conductivity"), "a ground conductivity", "W/(m K)");
+            v.plausible(
+                k,
+                (0.3, 7.0),
+                &path.key("ground_conductivity"),
+                "a ground conductivity",
+                "W/(m K)",
+            );
             k.map(Some)
         }
     };
@@ -420,10 +457,8 @@ fn layout(doc: &LayoutDoc, path: &KeyPath, v: &mut Validator) -> Option<(Vec<(f6
             v.plausible(spacing, (3.0, 20.0), &p.key("spacing"), "a borehole spacing", "m");
             for (key, n) in [("rows", r.rows), ("columns", r.columns)] {
                 if !(1..=50).contains(&n) {
-                    v.out.error(
-                        &p.key(key),
-                        format!("{n} {key} are not allowed; give 1 to 50"),
-                    );
+                    v.out
+                        .error(&p.key(key), format!("{n} {key} are not allowed; give 1 to 50"));
                     return None;
                 }
             }
@@ -433,13 +468,21 @@ fn layout(doc: &LayoutDoc, path: &KeyPath, v: &mut Validator) -> Option<(Vec<(f6
                 .collect();
             Some((
                 positions,
-                format!("{} × {} rectangle, {} m spacing", r.rows, r.columns, crate::site::validate::round_sig(s)),
+                format!(
+                    "{} × {} rectangle, {} m spacing",
+                    r.rows,
+                    r.columns,
+                    crate::site::validate::round_sig(s)
+                ),
             ))
         }
         (None, Some(points)) => {
             let p = path.key("points");
             if points.is_empty() || points.len() > 2500 {
-                v.out.error(&p, format!("{} points were given; give 1 to 2500 boreholes", points.len()));
+                v.out.error(
+                    &p,
+                    format!("{} points were given; give 1 to 2500 boreholes", points.len()),
+                );
                 return None;
             }
             let mut out = Vec::with_capacity(points.len());
@@ -447,7 +490,10 @@ fn layout(doc: &LayoutDoc, path: &KeyPath, v: &mut Validator) -> Option<(Vec<(f6
             for (i, xy) in points.iter().enumerate() {
                 let pi = p.index(i);
                 if xy.len() != 2 {
-                    v.out.error(&pi, format!("a point is a pair [x, y], but {} values were given", xy.len()));
+                    v.out.error(
+                        &pi,
+                        format!("a point is a pair [x, y], but {} values were given", xy.len()),
+                    );
                     ok = false;
                     continue;
                 }
@@ -472,9 +518,17 @@ fn layout(doc: &LayoutDoc, path: &KeyPath, v: &mut Validator) -> Option<(Vec<(f6
 }
 
 fn loop_pipe(doc: &LoopPipeDoc, path: &KeyPath, v: &mut Validator) -> Option<LoopPipe> {
-    let d = v.positive_q(&doc.outer_diameter, &path.key("outer_diameter"), "the pipe's outer diameter");
+    let d = v.positive_q(
+        &doc.outer_diameter,
+        &path.key("outer_diameter"),
+        "the pipe's outer diameter",
+    );
     let wall = v.positive_q(&doc.wall, &path.key("wall"), "the pipe wall");
-    let k = v.positive_q(&doc.conductivity, &path.key("conductivity"), "the pipe conductivity");
+    let k = v.positive_q(
+        &doc.conductivity,
+        &path.key("conductivity"),
+        "the pipe conductivity",
+    );
     let roughness = match &doc.roughness {
         None => Some(DEFAULT_PIPE_ROUGHNESS_M),
         Some(q) => {
@@ -508,14 +562,26 @@ fn heat_exchanger(
 ) -> Option<Exchanger> {
     let grout_of = |q: &Q<Conductivity>, v: &mut Validator| {
         let k = v.positive_q(q, &path.key("grout_conductivity"), "the grout conductivity");
-        v.plausible(k, (0.5, 3.5), &path.key("grout_conductivity"), "a grout conductivity", "W/(m K)");
+        v.plausible(
+            k,
+            (0.5, 3.5),
+            &path.key("grout_conductivity"),
+            "a grout conductivity",
+            "W/(m K)",
+        );
         k
     };
     let measured_of = |q: &Option<Q<LinearResistance>>, v: &mut Validator| match q {
         None => Some(None),
         Some(q) => {
             let r = v.positive_q(q, &path.key("borehole_resistance"), "the borehole resistance");
-            v.plausible(r, (0.03, 0.5), &path.key("borehole_resistance"), "a borehole resistance", "m K/W");
+            v.plausible(
+                r,
+                (0.03, 0.5),
+                &path.key("borehole_resistance"),
+                "a borehole resistance",
+                "m K/W",
+            );
             r.map(Some)
         }
     };
@@ -638,7 +704,11 @@ fn fluid(doc: &BoreFluidDoc, path: &KeyPath, v: &mut Validator) -> Option<Fluid>
         let names: Vec<&str> = Mixture::all().iter().map(|m| m.name()).collect();
         v.out.error(
             &path.key("mixture"),
-            format!("`{}` is not a known fluid; use one of: {}", doc.mixture, names.join(", ")),
+            format!(
+                "`{}` is not a known fluid; use one of: {}",
+                doc.mixture,
+                names.join(", ")
+            ),
         );
         return None;
     };
@@ -658,7 +728,8 @@ fn fluid(doc: &BoreFluidDoc, path: &KeyPath, v: &mut Validator) -> Option<Fluid>
 fn design_life(q: &Q<Time>, path: &KeyPath, v: &mut Validator) -> Option<usize> {
     let t = v.positive_q(q, path, "the design life")?;
     let months = t / MONTH_S;
-    if (months - months.round()).abs() > 1e-6 * months.max(1.0) || !(12.0..=1200.0).contains(&months.round()) {
+    if (months - months.round()).abs() > 1e-6 * months.max(1.0) || !(12.0..=1200.0).contains(&months.round())
+    {
         v.out.error(
             path,
             format!(
@@ -675,7 +746,10 @@ fn twelve<D: Dim>(values: &[Q<D>], path: &KeyPath, v: &mut Validator, what: &str
     if values.len() != 12 {
         v.out.error(
             path,
-            format!("give 12 monthly values of {what}, January first; {} were given", values.len()),
+            format!(
+                "give 12 monthly values of {what}, January first; {} were given",
+                values.len()
+            ),
         );
         return None;
     }
@@ -686,7 +760,8 @@ fn twelve<D: Dim>(values: &[Q<D>], path: &KeyPath, v: &mut Validator, what: &str
         match v.q(q, &p) {
             Some(x) if x >= 0.0 => out[i] = x,
             Some(x) => {
-                v.out.error(&p, format!("{what} cannot be negative, but {x} was given"));
+                v.out
+                    .error(&p, format!("{what} cannot be negative, but {x} was given"));
                 ok = false;
             }
             None => ok = false,
@@ -730,9 +805,7 @@ fn loads(doc: &LoadsDoc, path: &KeyPath, v: &mut Validator) -> Option<GroundLoad
     if given != 1 {
         v.out.error(
             path,
-            format!(
-                "give exactly one of `monthly`, `building`, `hourly` or `constant`; {given} were given"
-            ),
+            format!("give exactly one of `monthly`, `building`, `hourly` or `constant`; {given} were given"),
         );
         return None;
     }
@@ -740,7 +813,12 @@ fn loads(doc: &LoadsDoc, path: &KeyPath, v: &mut Validator) -> Option<GroundLoad
         let p = path.key("monthly");
         let extracted = twelve(&m.extracted, &p.key("extracted"), v, "extracted heat");
         let injected = twelve(&m.injected, &p.key("injected"), v, "injected heat");
-        let pe = optional_twelve(&m.peak_extraction, &p.key("peak_extraction"), v, "peak extraction");
+        let pe = optional_twelve(
+            &m.peak_extraction,
+            &p.key("peak_extraction"),
+            v,
+            "peak extraction",
+        );
         let pi = optional_twelve(&m.peak_injection, &p.key("peak_injection"), v, "peak injection");
         let duration = peak_duration(&m.peak_hours, &p.key("peak_hours"), v);
         return Some(GroundLoads::Monthly {
