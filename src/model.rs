@@ -118,6 +118,16 @@ pub struct Study {
     pub id: String,
     pub method: Method,
     pub kind: StudyKind,
+    /// The study's lines of the site file, as written, for the report's input echo.
+    pub echo: Option<InputEcho>,
+}
+
+/// Lines of the site file, verbatim (units as the user wrote them), with their line numbers.
+#[derive(Clone, Debug, PartialEq)]
+pub struct InputEcho {
+    pub first_line: usize,
+    pub last_line: usize,
+    pub text: String,
 }
 
 /// Which solution a study uses where its kind offers more than one.

@@ -101,3 +101,24 @@ fn warnings_come_first_and_the_cautions_paragraph_is_present() {
     assert!(html.contains(&burrow::report::html::esc(burrow::CAUTION)));
     assert!(html.find("id=\"cautions\"").unwrap() > first_study);
 }
+
+#[test]
+fn summary_gives_each_study_its_figures_and_verdict_and_each_study_echoes_its_inputs() {
+    let (_, html) = bundle(&hostile_site(), "summary");
+    let table = html
+        .split("<table class=\"studies\">")
+        .nth(1)
+        .and_then(|t| t.split("</table>").next())
+        .expect("a table of the studies in the summary");
+    assert_eq!(table.matches("<tr><td><a href=\"#study-").count(), 2);
+    // The frost study's main at 0.9 m under a 2 °C-mean climate: its verdict is stated.
+    assert!(table.contains("frost depth") && table.contains("heat loss"), "{table}");
+    assert!(table.contains("passes") || table.contains("FAILS"), "{table}");
+    // Each study echoes its own lines of the site file, escaped.
+    assert_eq!(html.matches("Inputs as written (site file, lines").count(), 2);
+    assert!(html.contains("kind: frost") && html.contains("kind: heat-loss"));
+    assert!(html.contains("&lt;u&gt;supply&lt;/u&gt;"));
+    // Print: studies start on a new page and figures are never split.
+    assert!(html.contains("section.study { page-break-before: always; break-before: page; }"));
+    assert!(html.contains("break-inside: avoid"));
+}

@@ -7,7 +7,7 @@
 use super::plot::{Band, LinePlot, Series, SeriesStyle};
 use super::{Figure, ReportFigures};
 use crate::model::{Climate, Site};
-use crate::results::{Figures, Level, Results};
+use crate::results::{Figures, Level, Results, StudyResult};
 use crate::site::units::{Dimension, format_quantity};
 use std::fmt::Write;
 
@@ -44,6 +44,7 @@ figure { margin: 1rem 0; page-break-inside: avoid; break-inside: avoid; } figure
 figcaption { color: var(--muted); font-size: .9rem; }
 .cautions { border: 1px solid var(--ink); padding: .7rem 1rem; margin-top: 2rem; }
 section.study { page-break-before: always; break-before: page; }
+.echo pre { background: #f6f6f3; border-left: 3px solid #bbb; padding: .5rem .8rem; font-size: .8rem; overflow-x: auto; white-space: pre-wrap; }
 @media print { body { margin: 0; max-width: none; } h2 { page-break-after: avoid; break-after: avoid; } a { color: inherit; } }
 "#;
 
@@ -60,7 +61,7 @@ pub fn report(results: &Results, site: &Site, figures: &ReportFigures) -> String
     summary(&mut h, results);
     inputs(&mut h, site);
     ground(&mut h, results, &figures.ground);
-    studies(&mut h, results, &figures.studies);
+    studies(&mut h, results, site, &figures.studies);
     let _ = write!(
         h,
         "<h2 id=\"cautions\">Cautions</h2>\n<p class=\"cautions\">{}</p>\n</body>\n</html>\n",
@@ -138,6 +139,126 @@ fn summary(h: &mut String, r: &Results) {
         g.profile.last().map(|p| p.mean_c).unwrap_or(f64::NAN),
         r.studies.len()
     );
+    if r.studies.is_empty() {
+        return;
+    }
+    let _ = write!(
+        h,
+        "<table class=\"studies\">\n<tr><th>study</th><th>decisive figures</th><th>against its limits</th></tr>\n"
+    );
+    for s in &r.studies {
+        let (figures, verdict) = study_summary(s);
+        let _ = write!(
+            h,
+            "<tr><td><a href=\"#study-{}\">{}</a> ({})</td><td>{}</td><td>{}</td></tr>\n",
+            esc(&s.id),
+            esc(&s.id),
+            esc(&s.kind),
+            esc(&figures),
+            esc(&verdict)
+        );
+    }
+    let _ = write!(h, "</table>\n");
+}
+
+/// The one or two figures that decide a study, and whether they pass the limits the site file
+/// set (plain text; the caller escapes it).
+pub fn study_summary(s: &StudyResult) -> (String, String) {
+    match &s.figures {
+        Figures::HeatLoss(hl) => {
+            let figures = format!(
+                "heat loss {:.1} W per metre of trench; {:.1} MWh a year over {:.0} m",
+                hl.total_heat_loss_w_per_m, hl.annual_heat_loss_mwh, hl.length_m
+            );
+            let hot: Vec<&str> = hl
+                .neighbours
+                .iter()
+                .filter(|n| n.exceeds_limit)
+                .map(|n| n.id.as_str())
+                .collect();
+            let mut verdict = match hl
+                .sizing
+                .as_ref()
+                .and_then(|z| z.heat_loss_limit_w_per_m.map(|l| (z, l)))
+            {
+                Some((z, limit)) => match z.chosen_insulation_thickness_m {
+                    Some(t) => format!(
+                        "passes the {limit} W/m limit with {:.0} mm of {}",
+                        t * 1000.0,
+                        z.layer
+                    ),
+                    None => format!("FAILS: no candidate meets the {limit} W/m limit"),
+                },
+                None => "no heat-loss limit set".into(),
+            };
+            if !hot.is_empty() {
+                verdict.push_str(&format!("; FAILS: soil too warm at {}", hot.join(", ")));
+            }
+            (figures, verdict)
+        }
+        Figures::Frost(f) => {
+            let figures = format!(
+                "frost depth {:.2} m{}",
+                f.max_frost_depth_m,
+                f.required_cover_m
+                    .map(|c| format!("; required cover {c:.2} m"))
+                    .unwrap_or_default()
+            );
+            let mut verdict = match f.frost_reaches_pipe {
+                Some(true) => "FAILS: frost reaches the pipe".to_string(),
+                Some(false) => "passes: the pipe lies below the frost".to_string(),
+                None => "no pipe checked".to_string(),
+            };
+            if let Some(t) = f.stagnant.as_ref().and_then(|st| st.time_to_first_ice_h) {
+                verdict.push_str(&format!(
+                    "; FAILS: standing water starts to freeze after {t:.0} h"
+                ));
+            }
+            (figures, verdict)
+        }
+        Figures::CrossSection(c) => (
+            format!(
+                "{}{}",
+                c.pipes
+                    .iter()
+                    .map(|p| format!("{}: {:.1} W/m", p.id, p.mean_heat_rate_w_per_m))
+                    .collect::<Vec<_>>()
+                    .join(", "),
+                c.max_frost_depth_m
+                    .map(|d| format!("; frost depth {d:.2} m"))
+                    .unwrap_or_default()
+            ),
+            "no limits (a free section)".into(),
+        ),
+        Figures::Borefield(b) => {
+            let t = &b.fluid_temperature;
+            let figures = format!(
+                "active length {:.1} m × {} boreholes ({:.0} m); mean fluid {:.1} to {:.1} °C",
+                b.active_length_m, b.boreholes, b.total_length_m, t.min_c, t.max_c
+            );
+            let tolerance = if b.sizing.is_some() { 0.1 } else { 0.0 };
+            let within =
+                t.min_c >= b.limits.min_fluid_c - tolerance && t.max_c <= b.limits.max_fluid_c + tolerance;
+            let mut verdict = if within {
+                format!(
+                    "passes: within {} to {} °C",
+                    b.limits.min_fluid_c, b.limits.max_fluid_c
+                )
+            } else {
+                format!(
+                    "FAILS: outside {} to {} °C",
+                    b.limits.min_fluid_c, b.limits.max_fluid_c
+                )
+            };
+            let margin = b.coldest_fluid_c - b.fluid_freezing_point_c;
+            if margin < crate::studies::borefield::ANTIFREEZE_MARGIN_K {
+                verdict.push_str(&format!(
+                    "; FAILS: coldest fluid only {margin:.1} K above freezing"
+                ));
+            }
+            (figures, verdict)
+        }
+    }
 }
 
 fn inputs(h: &mut String, site: &Site) {
@@ -276,7 +397,7 @@ fn figure_list(h: &mut String, figures: &[Figure]) {
 }
 
 /// One section per study: its method, figures and key results.
-fn studies(h: &mut String, r: &Results, figures: &[Vec<Figure>]) {
+fn studies(h: &mut String, r: &Results, site: &Site, figures: &[Vec<Figure>]) {
     for (s, figs) in r.studies.iter().zip(figures) {
         let _ = write!(
             h,
@@ -286,6 +407,20 @@ fn studies(h: &mut String, r: &Results, figures: &[Vec<Figure>]) {
             esc(&s.kind),
             esc(&s.method)
         );
+        if let Some(e) = site
+            .studies
+            .iter()
+            .find(|m| m.id == s.id)
+            .and_then(|m| m.echo.as_ref())
+        {
+            let _ = write!(
+                h,
+                "<details open class=\"echo\"><summary>Inputs as written (site file, lines {}–{})</summary>\n<pre>{}</pre>\n</details>\n",
+                e.first_line,
+                e.last_line,
+                esc(&e.text)
+            );
+        }
         match &s.figures {
             Figures::HeatLoss(hl) => super::heat_loss::section(h, hl),
             Figures::Frost(f) => super::frost::section(h, f),

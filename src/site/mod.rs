@@ -111,12 +111,70 @@ pub fn load_text(text: &str, label: &str, base_dir: &Path) -> Result<Loaded, Vec
     };
     let site = validate::site(&document, &mut validator);
     match site {
-        Some(site) if !out.has_errors() => Ok(Loaded {
-            site,
-            warnings: sorted(out.items),
-        }),
+        Some(mut site) if !out.has_errors() => {
+            for (study, echo) in site.studies.iter_mut().zip(study_echoes(text, &tree)) {
+                study.echo = Some(echo);
+            }
+            Ok(Loaded {
+                site,
+                warnings: sorted(out.items),
+            })
+        }
         _ => Err(sorted(out.items)),
     }
+}
+
+/// The lines of each item of `studies`, verbatim: from the item's first line to the line before
+/// the next item (or the next top-level key, or the end), trailing blank lines dropped and the
+/// common indentation removed.
+fn study_echoes(text: &str, tree: &yaml::Node) -> Vec<crate::model::InputEcho> {
+    let yaml::Value::Map(top) = &tree.value else {
+        return Vec::new();
+    };
+    let Some(pos) = top.iter().position(|(k, _)| k.name == "studies") else {
+        return Vec::new();
+    };
+    let yaml::Value::Seq(items) = &top[pos].1.value else {
+        return Vec::new();
+    };
+    let lines: Vec<&str> = text.lines().collect();
+    let block_end = top
+        .iter()
+        .map(|(k, _)| k.loc.line)
+        .filter(|&l| l > top[pos].0.loc.line)
+        .min()
+        .map_or(lines.len(), |l| l - 1);
+    items
+        .iter()
+        .enumerate()
+        .map(|(i, item)| {
+            let first = item.loc.line.max(1);
+            let next = items
+                .get(i + 1)
+                .map_or(block_end, |n| n.loc.line.saturating_sub(1));
+            let mut last = next.max(first).min(lines.len());
+            while last > first && lines[last - 1].trim().is_empty() {
+                last -= 1;
+            }
+            let chunk = &lines[first - 1..last];
+            let indent = chunk
+                .iter()
+                .filter(|l| !l.trim().is_empty())
+                .map(|l| l.len() - l.trim_start().len())
+                .min()
+                .unwrap_or(0);
+            let text = chunk
+                .iter()
+                .map(|l| l.get(indent.min(l.len() - l.trim_start().len())..).unwrap_or(""))
+                .collect::<Vec<_>>()
+                .join("\n");
+            crate::model::InputEcho {
+                first_line: first,
+                last_line: last,
+                text,
+            }
+        })
+        .collect()
 }
 
 fn sorted(mut items: Vec<Diagnostic>) -> Vec<Diagnostic> {

@@ -505,6 +505,7 @@ fn study(doc: &StudyDoc, path: &KeyPath, v: &mut Validator) -> Option<Study> {
             Some(Study {
                 id: d.id.clone(),
                 method: m?,
+                echo: None,
                 kind: StudyKind::CrossSection(section?),
             })
         }
@@ -520,6 +521,7 @@ fn study(doc: &StudyDoc, path: &KeyPath, v: &mut Validator) -> Option<Study> {
             Some(Study {
                 id: d.id.clone(),
                 method: m?,
+                echo: None,
                 kind: StudyKind::Frost(study?),
             })
         }
@@ -535,6 +537,7 @@ fn study(doc: &StudyDoc, path: &KeyPath, v: &mut Validator) -> Option<Study> {
             Some(Study {
                 id: d.id.clone(),
                 method: m?,
+                echo: None,
                 kind: StudyKind::HeatLoss(study?),
             })
         }
@@ -550,6 +553,7 @@ fn study(doc: &StudyDoc, path: &KeyPath, v: &mut Validator) -> Option<Study> {
             Some(Study {
                 id: d.id.clone(),
                 method: m?,
+                echo: None,
                 kind: StudyKind::Borefield(Box::new(study?)),
             })
         }
