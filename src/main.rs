@@ -31,8 +31,8 @@ struct Cli {
 enum Command {
     /// Run every study in a site file and write the report bundle
     #[command(
-        after_help = "Example:\n  burrow run site-examples/larchmere-district-heating.yaml\n  \
-        (writes out/larchmere-district-heating/report.html, results.json, plots and CSV)"
+        after_help = "Example:\n  burrow run site-examples/fennick-cross-heat-network.yaml\n  \
+        (writes out/fennick-cross-heat-network/report.html, results.json, plots and CSV)"
     )]
     Run {
         /// The site file (YAML)
