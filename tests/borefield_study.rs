@@ -141,7 +141,12 @@ fn hourly_constant_load_matches_the_monthly_path() {
     )));
     let (h, m) = (borefield(&hourly, 0), borefield(&monthly, 0));
     for k in [0usize, 5, 23] {
-        eprintln!("hourly vs monthly, month {}: {:.5} vs {:.5}", k + 1, h.months[k].min_c, m.months[k].mean_c);
+        eprintln!(
+            "hourly vs monthly, month {}: {:.5} vs {:.5}",
+            k + 1,
+            h.months[k].min_c,
+            m.months[k].mean_c
+        );
         // The hourly month row holds the minimum over the month: the month's last hour.
         assert!(
             (h.months[k].min_c - m.months[k].mean_c).abs() < 0.01,
@@ -214,7 +219,10 @@ fn peak_pulse_lowers_the_fluid_by_the_short_step_response() {
     assert!((mean_w - 3_000.0).abs() < 1e-6);
     let drop = (8_000.0 - mean_w) / length * (g_at(length, 4.0 * 3600.0) / (2.0 * PI * K) + 0.1);
     let jan = b.months[0];
-    eprintln!("peak pulse: study {:.5} K, hand {drop:.5} K", jan.mean_c - jan.min_c);
+    eprintln!(
+        "peak pulse: study {:.5} K, hand {drop:.5} K",
+        jan.mean_c - jan.min_c
+    );
     assert!(
         ((jan.mean_c - jan.min_c) - drop).abs() < 0.01,
         "{} vs {drop}",
@@ -286,7 +294,10 @@ fn sized_length_meets_the_governing_limit_and_grows_with_the_load() {
         )
     ));
     let again = borefield(&run(&recheck), 0).fluid_temperature.min_c;
-    eprintln!("sized {:.2} m: min fluid {:.4} °C, re-run {again:.4} °C", b.active_length_m, b.fluid_temperature.min_c);
+    eprintln!(
+        "sized {:.2} m: min fluid {:.4} °C, re-run {again:.4} °C",
+        b.active_length_m, b.fluid_temperature.min_c
+    );
     assert!(
         (again + 3.0).abs() < 0.1,
         "re-run at {:.2} m gives {again} °C",
@@ -404,7 +415,11 @@ fn loop_pressure_drop_matches_darcy_weisbach_with_blasius() {
     assert!((rho * v * d / fluid.dynamic_viscosity_pa_s(t) - re).abs() < 1e-6 * re);
     let f = 0.316 * re.powf(-0.25);
     let dp = (f * 2.0 * 102.0 / d + 1.5) * rho * v * v / 2.0;
-    eprintln!("pressure drop: study {:.3} kPa, Blasius {:.3} kPa (Re {re:.0})", b.pressure_drop_kpa, dp / 1000.0);
+    eprintln!(
+        "pressure drop: study {:.3} kPa, Blasius {:.3} kPa (Re {re:.0})",
+        b.pressure_drop_kpa,
+        dp / 1000.0
+    );
     assert!(
         (b.pressure_drop_kpa * 1000.0 - dp).abs() < 0.04 * dp,
         "{} kPa vs {} kPa",

@@ -449,9 +449,25 @@ fn strip_xml_declaration(svg: &str) -> &str {
 
 /// The envelope plot: annual band and mean against depth (depth downward).
 pub fn profile_plot(r: &Results) -> LinePlot {
-    let p = &r.ground.profile;
+    // Below the seasonal zone only the geothermal gradient remains: a deep profile (a borefield's)
+    // is plotted over its top part, where the seasons show; the CSV holds every depth.
+    let deep = r
+        .ground
+        .profile
+        .last()
+        .is_some_and(|p| p.depth_m > 2.0 * PROFILE_PLOT_DEPTH_M);
+    let p: Vec<_> = r
+        .ground
+        .profile
+        .iter()
+        .filter(|row| !deep || row.depth_m <= PROFILE_PLOT_DEPTH_M)
+        .collect();
     LinePlot {
-        title: "Undisturbed ground temperature".into(),
+        title: if deep {
+            format!("Undisturbed ground temperature, top {PROFILE_PLOT_DEPTH_M} m")
+        } else {
+            "Undisturbed ground temperature".into()
+        },
         x_label: "temperature (°C)".into(),
         y_label: "depth (m)".into(),
         series: vec![Series {
@@ -473,6 +489,9 @@ pub fn profile_plot(r: &Results) -> LinePlot {
         vlines: vec![(0.0, "0 °C".into())],
     }
 }
+
+/// Depth to which a deep undisturbed profile is plotted, m.
+pub const PROFILE_PLOT_DEPTH_M: f64 = 20.0;
 
 /// The surface temperature over the typical year.
 pub fn surface_plot(r: &Results) -> LinePlot {

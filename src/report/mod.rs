@@ -39,7 +39,7 @@ pub fn figures(results: &Results) -> Result<ReportFigures, String> {
     let ground = vec![
         Figure {
             stem: "ground-profile".into(),
-            caption: "Undisturbed ground temperature: the annual range (band) and mean against depth.".into(),
+            caption: "Undisturbed ground temperature: the annual range (band) and mean against depth (a deep profile over its top 20 m; ground-profile.csv holds every depth).".into(),
             rendered: plot::render_line_plot(&html::profile_plot(results), 720, 540)?,
         },
         Figure {
