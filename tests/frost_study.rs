@@ -182,3 +182,53 @@ studies:
     );
     assert!(r.warnings.iter().any(|w| w.code == "frost.no_latent_heat"));
 }
+
+fn homogeneous_site(climate: &str, interval: &str, study: &str) -> String {
+    format!(
+        "site: {{name: frost check}}
+climate: {climate}
+ground:
+  layers:
+    - {{name: silt, conductivity: 1.5, frozen_conductivity: {K_F}, heat_capacity: 2.4e6, frozen_heat_capacity: 1.9e6, water_content: {W}, freezing_interval: {interval}}}
+studies:
+{study}"
+    )
+}
+
+/// The engine's free-field frost depth against the modified Berggren equation (TM 5-852-6) in
+/// one homogeneous soil under the annual wave. The engine itself is checked against Neumann's
+/// surface-step solution (Carslaw & Jaeger §11.2) in tests/section_transient.rs
+/// (`freezing_front_follows_neumann_two_phase_solution`, within 3 %). Berggren's λ is that
+/// Neumann solution for a STEP of the season's mean surface temperature from a ground at the
+/// mean annual temperature; the real surface is the sinusoid and the ground starts from its
+/// periodic state, which is the approximation the equation makes. The soil here freezes over
+/// 0.05 K so that the engine's 0 °C isotherm is the sharp front Berggren assumes. Tolerance 10 %
+/// (from memory: the size of the modified Berggren equation's departures from numerical
+/// solutions for homogeneous soils); measured in the output.
+#[test]
+fn the_engines_free_field_frost_depth_agrees_with_modified_berggren_in_a_homogeneous_soil() {
+    let s = study(2.5).replace("kind: frost", "kind: frost\n    method: both");
+    let r = run_in(&homogeneous_site(WAVE, "0.05 K", &s), Path::new("."));
+    let f = frost(&r);
+    let b = f.frost_depth_m.berggren.unwrap();
+    let n = f.frost_depth_m.numerical.unwrap();
+    println!("numerical {n:.3} m, Berggren {b:.3} m, ratio {:.4}", n / b);
+    assert!((n / b - 1.0).abs() < 0.10, "numerical {n} vs Berggren {b}");
+    // The governing depth is the deeper of the two; Stefan stays an upper bound of Berggren.
+    assert_eq!(f.max_frost_depth_m, n.max(b));
+    let num = f.numerical.as_ref().unwrap();
+    assert!(num.energy_balance_relative_error < 1e-4);
+    // The design index is the typical year's own (closed form vs the daily curve: 1e-3).
+    assert!((num.winter_scale - 1.0).abs() < 1e-3, "{}", num.winter_scale);
+    // The same typical year in the 1-D periodic column (engine/column.rs, a separate code
+    // checked against the closed forms in tests/ground_profile.rs) freezes to the same depth:
+    // the 2-D section's edge column is the free field. Within 3 % (the two grids differ).
+    let column = r.ground.max_frost_depth_m;
+    println!("1-D periodic column {column:.3} m");
+    assert!((n / column - 1.0).abs() < 0.03, "section {n} vs column {column}");
+    // The water at 4 °C keeps the wall above 0 °C and warmer than the free-field ground at its
+    // depth; the report's pipe figure is the engine's.
+    let wall = f.pipe_min_temperature_c.unwrap();
+    assert_eq!(Some(wall), num.pipe_min_wall_temperature_c);
+    assert!(wall > num.ground_min_at_pipe_c.unwrap() && wall < 4.0, "{wall}");
+}

@@ -6,6 +6,7 @@
 
 pub mod cross_section;
 pub mod frost;
+pub mod frost_numerical;
 pub mod heat_loss;
 
 use crate::ground::profile::Undisturbed;
@@ -24,7 +25,7 @@ pub fn run(study: &Study, site: &Site, ground: &Undisturbed) -> Result<(StudyRes
             (Figures::HeatLoss(r), w)
         }
         StudyKind::Frost(f) => {
-            let (r, w) = frost::run(&study.id, f, site, ground)?;
+            let (r, w) = frost::run(&study.id, study.method, f, site, ground)?;
             (Figures::Frost(r), w)
         }
     };
