@@ -399,3 +399,27 @@ fn the_narrowest_board_keeps_the_crown_out_of_frost_and_a_narrower_one_does_not(
     assert!(s["frost_reaches_pipe"].as_bool().unwrap());
     assert!(s["bleed"]["flow_l_per_min"].as_f64().unwrap() > 0.0);
 }
+
+fn refusal(study: &str) -> String {
+    let errors = site::load_text(&site_text(WAVE, study), "t.yaml", Path::new(".")).unwrap_err();
+    errors
+        .iter()
+        .map(|d| format!("{d:?}"))
+        .collect::<Vec<_>>()
+        .join("\n")
+}
+
+/// The new keys are checked where they are written: a day that does not exist, a bleed flow
+/// without water to bleed, a board that would stick out of the ground.
+#[test]
+fn bad_season_start_bleed_and_board_keys_are_refused_with_their_key_path() {
+    let e = refusal("  - id: f\n    kind: frost\n    season_start: \"02-30\"\n");
+    assert!(e.contains("season_start") && e.contains("MM-DD"), "{e}");
+    let e = refusal("  - id: f\n    kind: frost\n    bleed: {length: 100 m}\n");
+    assert!(e.contains("bleed") && e.contains("water temperature"), "{e}");
+    let e = refusal(&study(0.3).replace(
+        "kind: frost",
+        "kind: frost\n    board: {thickness: 0.2 m, conductivity: 0.035}",
+    ));
+    assert!(e.contains("board") && e.contains("out of the ground"), "{e}");
+}

@@ -76,7 +76,7 @@ pub fn figures(s: &StudyResult, f: &FrostResult) -> Result<Vec<Figure>, String> 
     if let Some(n) = &f.numerical {
         out.push(Figure {
             stem: format!("{}-frost-series", s.id),
-            caption: "Free-field frost depth (0 °C isotherm at the edge of the engine's section, away from the pipe) through the design season, with the pipe crown.".into(),
+            caption: "Free-field frost depth (the deepest 0 °C isotherm at the edge of the engine's section, away from the pipe) through the design season, with the pipe crown.".into(),
             rendered: render_line_plot(
                 &LinePlot {
                     title: "Frost depth through the design winter".into(),

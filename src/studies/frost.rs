@@ -529,23 +529,31 @@ fn pipe_checks(
             .and_then(|n| n.ground_min_at_pipe_c)
             .unwrap_or(ground_min);
         let resistance = r_wall + r_ground;
-        let flow = fp::bleed_flow_m3_s(
+        match fp::bleed_flow_m3_s(
             water_min,
             ground_c,
             bleed.min_temperature_c,
             bleed.length_m,
             WATER_C_J_M3_K,
             resistance,
-        )
-        .map_err(|e| format!("study {id}: the bleed flow: {e}"))?;
-        r.bleed = Some(BleedFigures {
-            length_m: bleed.length_m,
-            flow_l_per_min: flow * 60_000.0,
-            inlet_temperature_c: water_min,
-            ground_temperature_c: ground_c,
-            min_temperature_c: bleed.min_temperature_c,
-            resistance_m_k_per_w: resistance,
-        });
+        ) {
+            Ok(flow) => {
+                r.bleed = Some(BleedFigures {
+                    length_m: bleed.length_m,
+                    flow_l_per_min: flow * 60_000.0,
+                    inlet_temperature_c: water_min,
+                    ground_temperature_c: ground_c,
+                    min_temperature_c: bleed.min_temperature_c,
+                    resistance_m_k_per_w: resistance,
+                })
+            }
+            Err(e) => warnings.push(Warning {
+                study: Some(id.to_string()),
+                level: Level::Caution,
+                code: "frost.bleed_not_possible".into(),
+                message: format!("no bleed flow was found: {e}"),
+            }),
+        }
     }
     if let Some(duration) = f.stagnant_s {
         let initial = if water_min.is_finite() {
