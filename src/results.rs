@@ -237,17 +237,17 @@ pub struct FrostResult {
     pub season_start: String,
     /// The engine's design winter (method `numerical` or `both`).
     #[serde(skip_serializing_if = "Option::is_none")]
-    pub numerical: Option<FrostNumericalFigures>,
+    pub numerical: Option<Box<FrostNumericalFigures>>,
     /// Flow that keeps the water above `min_temperature_c` along `length_m` (when asked).
     #[serde(skip_serializing_if = "Option::is_none")]
-    pub bleed: Option<BleedFigures>,
+    pub bleed: Option<Box<BleedFigures>>,
     /// Narrowest insulation board width keeping the crown above 0 °C, m: absent when no board was
     /// given, 0 when the crown stays out of frost without one, null when even the widest tried
     /// does not.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub board_width_m: Option<Option<f64>>,
     #[serde(skip_serializing_if = "Option::is_none")]
-    pub board: Option<BoardFigures>,
+    pub board: Option<Box<BoardFigures>>,
     /// Cumulative surface degree-days over the design (typical) season, one value a day from
     /// the season start, for the report.
     #[serde(skip)]

@@ -220,7 +220,7 @@ pub fn section(h: &mut String, f: &FrostResult) {
     }
     if let (Some(width), Some(b)) = (f.board_width_m, &f.board) {
         let text = match width {
-            Some(w) if w == 0.0 => "none needed".to_string(),
+            Some(w) if w <= 0.0 => "none needed".to_string(),
             Some(w) => format!("<b>{w:.2} m</b>"),
             None => format!("none up to {:.2} m", b.max_width_m),
         };

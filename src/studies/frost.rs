@@ -158,7 +158,7 @@ pub fn run(
         margin_m: f.margin_m,
         stagnant: None,
         season_start: season_start_text(f.season_start),
-        numerical: run.map(|(r, circle)| numerical_figures(r, circle, winter.as_ref())),
+        numerical: run.map(|(r, circle)| Box::new(numerical_figures(r, circle, winter.as_ref()))),
         bleed: None,
         board_width_m: None,
         board: None,
@@ -179,6 +179,9 @@ pub fn run(
     Ok((result, warnings))
 }
 
+/// A pipe's centre (x, depth) and outer radius in the field's coordinates, m.
+type PipeCircle = (f64, f64, f64);
+
 /// `MM-DD` of a (month, day).
 fn season_start_text((month, day): (u32, u32)) -> String {
     format!("{month:02}-{day:02}")
@@ -191,7 +194,7 @@ fn numerical_run(
     ground: &Undisturbed,
     pipe: Option<&Pipe>,
     winter: &Winter,
-) -> Result<(PipeRun, Option<(f64, f64, f64)>), String> {
+) -> Result<(PipeRun, Option<PipeCircle>), String> {
     let r = numerical::winter_run(site, ground, pipe, winter, &DEFAULT_RESOLUTION)?;
     Ok((r, pipe.map(|p| (0.0, p.depth_m, p.outer_radius_m()))))
 }
@@ -200,7 +203,7 @@ fn numerical_run(
 /// frost.
 fn numerical_figures(
     r: PipeRun,
-    circle: Option<(f64, f64, f64)>,
+    circle: Option<PipeCircle>,
     winter: Option<&Winter>,
 ) -> FrostNumericalFigures {
     let snap = &r.field;
@@ -252,7 +255,7 @@ fn board_figures(
         (Some(0.0), Vec::new())
     };
     r.board_width_m = Some(width);
-    r.board = Some(BoardFigures {
+    r.board = Some(Box::new(BoardFigures {
         thickness_m: board.thickness_m,
         conductivity_w_m_k: board.conductivity_w_m_k,
         gap_m: board.gap_m,
@@ -265,7 +268,7 @@ fn board_figures(
                 frost_depth_over_pipe_m: t.frost_depth_m,
             })
             .collect(),
-    });
+    }));
     Ok(())
 }
 
@@ -538,14 +541,14 @@ fn pipe_checks(
             resistance,
         ) {
             Ok(flow) => {
-                r.bleed = Some(BleedFigures {
+                r.bleed = Some(Box::new(BleedFigures {
                     length_m: bleed.length_m,
                     flow_l_per_min: flow * 60_000.0,
                     inlet_temperature_c: water_min,
                     ground_temperature_c: ground_c,
                     min_temperature_c: bleed.min_temperature_c,
                     resistance_m_k_per_w: resistance,
-                })
+                }))
             }
             Err(e) => warnings.push(Warning {
                 study: Some(id.to_string()),

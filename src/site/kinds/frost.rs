@@ -64,11 +64,11 @@ pub struct FrostDoc {
     /// Find the flow that keeps the water above freezing along a length of main in the coldest
     /// ground (needs a pipe driven by its water temperature).
     #[serde(default)]
-    pub bleed: Option<BleedDoc>,
+    pub bleed: Option<Box<BleedDoc>>,
     /// An insulation board laid flat above the main: when frost reaches the main, the study
     /// finds the narrowest width that keeps the crown above 0 °C (engine runs).
     #[serde(default)]
-    pub board: Option<BoardDoc>,
+    pub board: Option<Box<BoardDoc>>,
 }
 
 #[derive(Debug, Deserialize, JsonSchema)]
