@@ -191,9 +191,17 @@ pub fn section(h: &mut String, f: &FrostResult) {
     if let Some(reaches) = f.frost_reaches_pipe {
         let _ = write!(
             h,
-            "<tr><td>Pipe crown depth</td><td class=\"n\">{}</td></tr>\n<tr><td>Frost reaches the pipe</td><td class=\"n\">{}</td></tr>\n<tr><td>Coldest pipe wall (undisturbed ground, water through the wall)</td><td class=\"n\">{}</td></tr>\n<tr><td><b>Required cover</b> (frost depth + {:.2} m margin, common practice)</td><td class=\"n\"><b>{}</b></td></tr>\n",
+            "<tr><td>Pipe crown depth</td><td class=\"n\">{}</td></tr>\n<tr><td>Frost reaches the pipe</td><td class=\"n\">{}</td></tr>\n<tr><td>Coldest pipe wall ({})</td><td class=\"n\">{}</td></tr>\n<tr><td><b>Required cover</b> (frost depth + {:.2} m margin, common practice)</td><td class=\"n\"><b>{}</b></td></tr>\n",
             opt(f.pipe_crown_depth_m, "m"),
             if reaches { "<b>yes</b>" } else { "no" },
+            if f.numerical
+                .as_ref()
+                .is_some_and(|n| n.pipe_min_wall_temperature_c.is_some())
+            {
+                "engine, design winter"
+            } else {
+                "undisturbed ground, water through the wall"
+            },
             opt(f.pipe_min_temperature_c, "°C"),
             f.margin_m,
             opt(f.required_cover_m, "m")
