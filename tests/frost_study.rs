@@ -182,3 +182,253 @@ studies:
     );
     assert!(r.warnings.iter().any(|w| w.code == "frost.no_latent_heat"));
 }
+
+fn homogeneous_site(climate: &str, interval: &str, study: &str) -> String {
+    format!(
+        "site: {{name: frost check}}
+climate: {climate}
+ground:
+  layers:
+    - {{name: silt, conductivity: 1.5, frozen_conductivity: {K_F}, heat_capacity: 2.4e6, frozen_heat_capacity: 1.9e6, water_content: {W}, freezing_interval: {interval}}}
+studies:
+{study}"
+    )
+}
+
+/// The engine's free-field frost depth against the modified Berggren equation (TM 5-852-6) in
+/// one homogeneous soil under the annual wave. The engine itself is checked against Neumann's
+/// surface-step solution (Carslaw & Jaeger §11.2) in tests/section_transient.rs
+/// (`freezing_front_follows_neumann_two_phase_solution`, within 3 %). Berggren's λ is that
+/// Neumann solution for a STEP of the season's mean surface temperature from a ground at the
+/// mean annual temperature; the real surface is the sinusoid and the ground starts from its
+/// periodic state, which is the approximation the equation makes. The soil here freezes over
+/// 0.05 K so that the engine's 0 °C isotherm is the sharp front Berggren assumes. Tolerance 10 %
+/// (from memory: the size of the modified Berggren equation's departures from numerical
+/// solutions for homogeneous soils); measured in the output.
+#[test]
+fn the_engines_free_field_frost_depth_agrees_with_modified_berggren_in_a_homogeneous_soil() {
+    let s = study(2.5).replace("kind: frost", "kind: frost\n    method: both");
+    let r = run_in(&homogeneous_site(WAVE, "0.05 K", &s), Path::new("."));
+    let f = frost(&r);
+    let b = f.frost_depth_m.berggren.unwrap();
+    let n = f.frost_depth_m.numerical.unwrap();
+    println!("numerical {n:.3} m, Berggren {b:.3} m, ratio {:.4}", n / b);
+    assert!((n / b - 1.0).abs() < 0.10, "numerical {n} vs Berggren {b}");
+    // The governing depth is the deeper of the two; Stefan stays an upper bound of Berggren.
+    assert_eq!(f.max_frost_depth_m, n.max(b));
+    let num = f.numerical.as_ref().unwrap();
+    assert!(num.energy_balance_relative_error < 1e-4);
+    // The design index is the typical year's own (closed form vs the daily curve: 1e-3).
+    assert!((num.winter_scale - 1.0).abs() < 1e-3, "{}", num.winter_scale);
+    // The same typical year in the 1-D periodic column (engine/column.rs, a separate code
+    // checked against the closed forms in tests/ground_profile.rs) freezes to the same depth:
+    // the 2-D section's edge column is the free field. Within 3 % (the two grids differ).
+    let column = r.ground.max_frost_depth_m;
+    println!("1-D periodic column {column:.3} m");
+    assert!((n / column - 1.0).abs() < 0.03, "section {n} vs column {column}");
+    // The water at 4 °C keeps the wall above 0 °C and warmer than the free-field ground at its
+    // depth; the report's pipe figure is the engine's.
+    let wall = f.pipe_min_temperature_c.unwrap();
+    assert_eq!(Some(wall), num.pipe_min_wall_temperature_c);
+    assert!(wall > num.ground_min_at_pipe_c.unwrap() && wall < 4.0, "{wall}");
+}
+
+fn index_of(climate: &str, season_start: &str) -> f64 {
+    let s = format!("  - id: f\n    kind: frost\n    season_start: \"{season_start}\"\n");
+    let r = run_in(&site_text(climate, &s), Path::new("."));
+    let f = frost(&r);
+    assert_eq!(f.season_start, season_start);
+    f.design_freezing_index_c_days
+}
+
+/// Moving the season start within the warm part of the year counts the same winter: the
+/// cumulative degree-day curve of a contiguous winter falls by the same amount (TM 5-852-6's
+/// definition is the largest fall within the season). The climate is a sinusoid, 3 − 12 cos,
+/// coldest in late January, given as monthly values and interpolated to days (the closed-form
+/// path of an `annual-wave` climate does not depend on the start at all).
+#[test]
+fn a_season_start_in_summer_or_autumn_leaves_the_freezing_index_unchanged() {
+    let air: Vec<String> = (0..12)
+        .map(|i| format!("{:.4}", 3.0 - 12.0 * (2.0 * PI * (i as f64 - 0.2) / 12.0).cos()))
+        .collect();
+    let climate = format!(
+        "{{model: monthly-air, air: [{}], n_factor_freezing: 1, n_factor_thawing: 1}}",
+        air.join(", ")
+    );
+    let climate = climate.as_str();
+    let july = index_of(climate, "07-01");
+    for start in ["05-15", "09-01", "10-10"] {
+        let other = index_of(climate, start);
+        assert!((other - july).abs() < 1e-9 * july, "{start}: {other} vs {july}");
+    }
+    assert!(july > 300.0, "{july}");
+}
+
+/// A season that starts at the coldest instant of a sinusoidal surface splits the winter into
+/// two equal halves; the index is then one half, ∫ (A cos φ − m) dt over φ = 2π(t − t_min)/P
+/// from 0 to θ = acos(m/A): (P/2π)(A sin θ − m θ), half the whole winter's (P/π)(A sin θ − m θ)
+/// (TM 5-852-6's largest fall of the cumulative curve within the season).
+#[test]
+fn a_season_start_inside_the_winter_splits_it_and_lowers_the_index() {
+    // Coldest day 20 (1-based): the minimum is at t = 19 d; the season from 01-20 starts there.
+    let whole = index_of(WAVE, "07-01");
+    let split = index_of(WAVE, "01-20");
+    let (m, a, p) = (3.0_f64, 12.0_f64, 365.0_f64);
+    let theta = (m / a).acos();
+    let want = p / (2.0 * PI) * (a * theta.sin() - m * theta);
+    println!("whole {whole:.2}, split {split:.2}, hand {want:.2} °C·d");
+    assert!((split / want - 1.0).abs() < 0.005, "{split} vs {want}");
+    assert!(split < 0.55 * whole);
+}
+
+/// Bleed flow against a hand calculation: the steady heat balance of water flowing through
+/// ground at T_g, T(L) = T_g + (T_in − T_g) exp(−L/(Q ρc R')) (Incropera & DeWitt §8.3.3),
+/// solved for Q with T(L) = T_min: Q = L / (ρc R' ln((T_in − T_g)/(T_min − T_g))). R' is the
+/// wall, ln(r_o/r_i)/(2πk_w), plus the ground, acosh(H/r_o)/(2πk) (cylinder under an
+/// isothermal surface); T_g the coldest closed-form ground at the pipe depth, m − A e^(−z/d)
+/// (Carslaw & Jaeger §2.6, dry homogeneous soil); ρc of water at 0 °C 4.218 MJ/(m3 K) (from
+/// memory, 0.1 %).
+#[test]
+fn the_bleed_flow_matches_the_heat_balance_along_the_pipe() {
+    let text = "site: {name: bleed}
+climate: {model: annual-wave, mean: 3 °C, amplitude: 12 K, coldest_day: 20}
+ground:
+  layers: [{name: dry sand, conductivity: 1.5, heat_capacity: 2.0e6}]
+studies:
+  - id: main
+    kind: frost
+    pipe: {id: m, depth: 1.5 m, outer_diameter: 0.16, layers: [{name: pe, thickness: 10 mm, conductivity: 0.4}], fluid: {temperature: 4}}
+    bleed: {length: 400 m, min_temperature: 0.5 °C}
+";
+    let r = run_in(text, Path::new("."));
+    let b = frost(&r).bleed.as_ref().unwrap();
+    let d = (1.5_f64 / 2.0e6 * 365.0 * 86_400.0 / PI).sqrt();
+    let t_g = 3.0 - 12.0 * (-1.5 / d).exp();
+    let r_g = (1.5_f64 / 0.08).acosh() / (2.0 * PI * 1.5);
+    let r_w = (0.08_f64 / 0.07).ln() / (2.0 * PI * 0.4);
+    let q = 400.0 / (4.218e6 * (r_w + r_g) * ((4.0 - t_g) / (0.5 - t_g)).ln());
+    let want = q * 60_000.0;
+    println!(
+        "bleed {:.4} l/min vs hand {want:.4} l/min (T_g {t_g:.3} °C)",
+        b.flow_l_per_min
+    );
+    assert!((b.flow_l_per_min / want - 1.0).abs() < 1e-3);
+    assert_eq!(
+        (b.length_m, b.min_temperature_c, b.inlet_temperature_c),
+        (400.0, 0.5, 4.0)
+    );
+    // The flow grows with the length: the heat balance is linear in L for a fixed outlet.
+    let long = run_in(&text.replace("400 m", "800 m"), Path::new("."));
+    let b2 = frost(&long).bleed.as_ref().unwrap();
+    assert!((b2.flow_l_per_min / b.flow_l_per_min - 2.0).abs() < 1e-9);
+}
+
+const MILD_WAVE: &str = "{model: annual-wave, mean: 6 °C, amplitude: 12 K, coldest_day: 20}";
+
+const BOARD_STUDY: &str = "  - id: main
+    kind: frost
+    method: both
+    pipe: {id: m, depth: 1.0 m, outer_diameter: 160 mm, layers: [{name: pe, thickness: 9.5 mm, conductivity: 0.4}], fluid: {temperature: 4 °C}}
+    board: {thickness: 50 mm, conductivity: 0.035 W/(m K), gap: 0.1 m, max_width: 3 m}
+    bleed: {length: 400 m}
+";
+
+/// The insulation board found by the engine: frost over the pipe gets shallower as the board
+/// widens; the width found keeps the crown at or above 0 °C all winter and a board 20 %
+/// narrower does not (each a design winter after a spin-up year, water standing). Also the
+/// results.json keys of the issue.
+#[test]
+fn the_narrowest_board_keeps_the_crown_out_of_frost_and_a_narrower_one_does_not() {
+    let text = site_text(MILD_WAVE, BOARD_STUDY);
+    let loaded = site::load_text(&text, "t.yaml", Path::new(".")).unwrap();
+    let r = burrow::compute(&loaded, "t.yaml", b"", &burrow::Silent).unwrap();
+    let f = frost(&r);
+    assert_eq!(f.frost_reaches_pipe, Some(true));
+    let trials = &f.board.as_ref().unwrap().trials;
+    let width = f.board_width_m.unwrap().expect("a board up to 3 m should do");
+    for t in trials {
+        println!(
+            "board {:.3} m: crown min {:+.3} °C, frost over pipe {:.3} m",
+            t.width_m, t.crown_min_temperature_c, t.frost_depth_over_pipe_m
+        );
+    }
+    for pair in trials.windows(2) {
+        assert!(
+            pair[1].frost_depth_over_pipe_m <= pair[0].frost_depth_over_pipe_m + 0.005,
+            "{pair:?}"
+        );
+    }
+    assert!(trials[0].frost_depth_over_pipe_m > trials.last().unwrap().frost_depth_over_pipe_m + 0.3);
+    let found = trials.iter().find(|t| t.width_m == width).unwrap();
+    assert!(found.crown_min_temperature_c >= 0.0);
+    // 20 % narrower, run afresh through the same engine path.
+    let site = &loaded.site;
+    let ground = burrow::ground::profile::undisturbed(site, 15.0).unwrap();
+    let burrow::model::StudyKind::Frost(study) = &site.studies[0].kind else {
+        panic!("frost")
+    };
+    let pipe = study.pipe.as_ref().unwrap();
+    let winter = burrow::studies::frost_numerical::Winter::new(
+        burrow::ground::climate::SurfaceYear::from_climate(&site.climate),
+        181.0 * 86_400.0,
+        f.design_freezing_index_c_days,
+    )
+    .unwrap();
+    let narrower = burrow::studies::frost_numerical::board_trial(
+        site,
+        &ground,
+        pipe,
+        study.board.as_ref().unwrap(),
+        &winter,
+        0.8 * width,
+    )
+    .unwrap();
+    println!(
+        "board {:.3} m: crown min {:+.3} °C",
+        narrower.width_m, narrower.crown_min_c
+    );
+    assert!(narrower.crown_min_c < 0.0);
+
+    // results.json carries the issue's keys.
+    let json = serde_json::to_value(&r).unwrap();
+    let s = &json["studies"][0];
+    for key in ["stefan", "berggren", "numerical"] {
+        assert!(s["frost_depth_m"][key].is_number(), "frost_depth_m.{key}");
+    }
+    for key in [
+        "design_freezing_index_c_days",
+        "max_frost_depth_m",
+        "pipe_min_temperature_c",
+        "required_cover_m",
+        "board_width_m",
+        "season_start",
+    ] {
+        assert!(!s[key].is_null(), "{key}");
+    }
+    assert!(s["frost_reaches_pipe"].as_bool().unwrap());
+    assert!(s["bleed"]["flow_l_per_min"].as_f64().unwrap() > 0.0);
+}
+
+fn refusal(study: &str) -> String {
+    let errors = site::load_text(&site_text(WAVE, study), "t.yaml", Path::new(".")).unwrap_err();
+    errors
+        .iter()
+        .map(|d| format!("{d:?}"))
+        .collect::<Vec<_>>()
+        .join("\n")
+}
+
+/// The new keys are checked where they are written: a day that does not exist, a bleed flow
+/// without water to bleed, a board that would stick out of the ground.
+#[test]
+fn bad_season_start_bleed_and_board_keys_are_refused_with_their_key_path() {
+    let e = refusal("  - id: f\n    kind: frost\n    season_start: \"02-30\"\n");
+    assert!(e.contains("season_start") && e.contains("MM-DD"), "{e}");
+    let e = refusal("  - id: f\n    kind: frost\n    bleed: {length: 100 m}\n");
+    assert!(e.contains("bleed") && e.contains("water temperature"), "{e}");
+    let e = refusal(&study(0.3).replace(
+        "kind: frost",
+        "kind: frost\n    board: {thickness: 0.2 m, conductivity: 0.035}",
+    ));
+    assert!(e.contains("board") && e.contains("out of the ground"), "{e}");
+}

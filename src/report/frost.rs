@@ -4,8 +4,9 @@
 #![allow(clippy::write_with_newline)]
 
 use super::Figure;
+use super::heat_loss::isotherm_levels;
 use super::html::esc;
-use super::plot::{LinePlot, Series, SeriesStyle, render_line_plot};
+use super::plot::{FieldPlot, LinePlot, Series, SeriesStyle, render_field_plot, render_line_plot};
 use crate::results::{FrostResult, StudyResult};
 use std::fmt::Write;
 
@@ -31,14 +32,14 @@ pub fn figures(s: &StudyResult, f: &FrostResult) -> Result<Vec<Figure>, String> 
     if let Some(c) = f.required_cover_m {
         hlines.push((c, format!("required cover {c:.2} m")));
     }
-    Ok(vec![
+    let mut out = vec![
         Figure {
             stem: format!("{}-degree-days", s.id),
-            caption: "Cumulative surface degree-days over the freezing season from 1 July; the freezing index is the fall from the highest to the lowest point.".into(),
+            caption: format!("Cumulative surface degree-days over the freezing season from {} (MM-DD); the freezing index is the fall from the highest to the lowest point.", f.season_start),
             rendered: render_line_plot(
                 &LinePlot {
                     title: "Cumulative degree-days of the design season".into(),
-                    x_label: "days from 1 July".into(),
+                    x_label: format!("days from {} (MM-DD)", f.season_start),
                     y_label: "degree-days (°C·d)".into(),
                     series: vec![curve],
                     x_range: Some((0.0, 365.0)),
@@ -71,15 +72,92 @@ pub fn figures(s: &StudyResult, f: &FrostResult) -> Result<Vec<Figure>, String> 
                 480,
             )?,
         },
-    ])
+    ];
+    if let Some(n) = &f.numerical {
+        out.push(Figure {
+            stem: format!("{}-frost-series", s.id),
+            caption: "Free-field frost depth (the deepest 0 °C isotherm at the edge of the engine's section, away from the pipe) through the design season, with the pipe crown.".into(),
+            rendered: render_line_plot(
+                &LinePlot {
+                    title: "Frost depth through the design winter".into(),
+                    x_label: format!("days from {} (MM-DD)", f.season_start),
+                    y_label: "frost depth (m)".into(),
+                    series: vec![Series {
+                        name: "free-field frost depth (engine)".into(),
+                        points: n
+                            .series_days
+                            .iter()
+                            .zip(&n.series_frost_depth_m)
+                            .map(|(d, x)| (*d, *x))
+                            .collect(),
+                        style: SeriesStyle::Line,
+                        colour: 0,
+                    }],
+                    y_down: true,
+                    hlines: f
+                        .pipe_crown_depth_m
+                        .map(|c| vec![(c, format!("pipe crown {c:.2} m"))])
+                        .unwrap_or_default(),
+                    x_range: Some((0.0, 365.0)),
+                    ..Default::default()
+                },
+                720,
+                400,
+            )?,
+        });
+        if let Some(field) = &n.field {
+            let finite = field.values_c.iter().flatten().filter(|v| v.is_finite());
+            let (lo, hi) = finite.fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), &v| {
+                (a.min(v), b.max(v))
+            });
+            let mut levels = isotherm_levels(lo, hi);
+            if lo < 0.0 && hi > 0.0 && !levels.contains(&0.0) {
+                levels.push(0.0);
+            }
+            out.push(Figure {
+                stem: format!("{}-field", s.id),
+                caption: format!(
+                    "Temperature around the main at the deepest frost ({}); isotherms in °C, the 0 °C isotherm is the frost line; the marker is the pipe centre.",
+                    field.label
+                ),
+                rendered: render_field_plot(
+                    &FieldPlot {
+                        title: "Ground temperature at the deepest frost".into(),
+                        x_label: "x from the pipe centre (m)".into(),
+                        z_label: "depth (m)".into(),
+                        colour_bar_label: "temperature (°C)".into(),
+                        x_m: field.x_m.clone(),
+                        z_m: field.z_m.clone(),
+                        values: field.values_c.clone(),
+                        value_range: Some((lo, hi)),
+                        isotherms: levels,
+                        markers: n
+                            .pipe_circle
+                            .map(|(x, z, _)| vec![(x, z, "pipe".to_string())])
+                            .unwrap_or_default(),
+                    },
+                    760,
+                    480,
+                )?,
+            });
+        }
+    }
+    Ok(out)
 }
 
 pub fn section(h: &mut String, f: &FrostResult) {
     let _ = write!(
         h,
-        "<p>Method: the design surface freezing index ({}) drives Stefan's formula, summed layer by layer, and the modified Berggren equation, whose coefficient λ comes from the Neumann two-phase relation behind Aldrich &amp; Paynter's (1953) chart (US Army/Air Force TM 5-852-6). Stefan neglects the soil's sensible heat and is shown as an upper bound; the modified Berggren depth governs.</p>\n",
+        "<p>Method: the design surface freezing index ({}) drives Stefan's formula, summed layer by layer, and the modified Berggren equation, whose coefficient λ comes from the Neumann two-phase relation behind Aldrich &amp; Paynter's (1953) chart (US Army/Air Force TM 5-852-6). Stefan neglects the soil's sensible heat and is shown as an upper bound; the deeper of the modified Berggren and the numerical depth governs.</p>\n",
         esc(&f.design_index_basis)
     );
+    if let Some(n) = &f.numerical {
+        let _ = write!(
+            h,
+            "<p>Numerical: burrow's finite-volume engine runs the section with the main in place (water at its monthly temperatures) from the periodic undisturbed ground through {} spin-up years of the typical year and then the design season, whose below-zero surface temperatures are scaled by {:.3} to give the design freezing index. Latent heat of the soil water is released between 0 °C and the layer's freezing interval below it; the frost depth is the 0 °C isotherm (first ice) at the section's edge, away from the pipe, so it lies somewhat deeper than a sharp-front formula's.</p>\n",
+            n.spin_up_years, n.winter_scale
+        );
+    }
     let opt = |v: Option<f64>, unit: &str| v.map(|x| format!("{x:.2} {unit}")).unwrap_or_else(|| "—".into());
     let _ = write!(
         h,
@@ -89,7 +167,7 @@ pub fn section(h: &mut String, f: &FrostResult) {
 <tr><td>Mean annual surface temperature; freezing season</td><td class=\"n\">{:.2} °C; {:.0} days</td></tr>\n\
 <tr><td>Frost depth, Stefan (upper bound)</td><td class=\"n\">{}</td></tr>\n\
 <tr><td>Frost depth, modified Berggren</td><td class=\"n\">{}</td></tr>\n\
-<tr><td>Frost depth, numerical</td><td class=\"n\">{}</td></tr>\n\
+<tr><td>Frost depth, numerical (engine, free field, 0 °C isotherm)</td><td class=\"n\">{}</td></tr>\n\
 <tr><td><b>Governing frost depth</b></td><td class=\"n\"><b>{:.2} m</b></td></tr>\n",
         f.design_freezing_index_c_days,
         opt(f.air_freezing_index_c_days, "°C·d"),
@@ -113,12 +191,54 @@ pub fn section(h: &mut String, f: &FrostResult) {
     if let Some(reaches) = f.frost_reaches_pipe {
         let _ = write!(
             h,
-            "<tr><td>Pipe crown depth</td><td class=\"n\">{}</td></tr>\n<tr><td>Frost reaches the pipe</td><td class=\"n\">{}</td></tr>\n<tr><td>Coldest pipe wall (undisturbed ground, water through the wall)</td><td class=\"n\">{}</td></tr>\n<tr><td><b>Required cover</b> (frost depth + {:.2} m margin, common practice)</td><td class=\"n\"><b>{}</b></td></tr>\n",
+            "<tr><td>Pipe crown depth</td><td class=\"n\">{}</td></tr>\n<tr><td>Frost reaches the pipe</td><td class=\"n\">{}</td></tr>\n<tr><td>Coldest pipe wall ({})</td><td class=\"n\">{}</td></tr>\n<tr><td><b>Required cover</b> (frost depth + {:.2} m margin, common practice)</td><td class=\"n\"><b>{}</b></td></tr>\n",
             opt(f.pipe_crown_depth_m, "m"),
             if reaches { "<b>yes</b>" } else { "no" },
+            if f.numerical
+                .as_ref()
+                .is_some_and(|n| n.pipe_min_wall_temperature_c.is_some())
+            {
+                "engine, design winter"
+            } else {
+                "undisturbed ground, water through the wall"
+            },
             opt(f.pipe_min_temperature_c, "°C"),
             f.margin_m,
             opt(f.required_cover_m, "m")
+        );
+    }
+    if let Some(n) = &f.numerical {
+        let _ = write!(
+            h,
+            "<tr><td>Engine run: cells; step; spin-up; winter scale; energy balance</td><td class=\"n\">{}; {:.0} h; {} years; {:.3}; {:.1e}</td></tr>\n<tr><td>Deepest free-field frost, day of the season</td><td class=\"n\">{:.0}</td></tr>\n",
+            n.cells,
+            n.time_step_h,
+            n.spin_up_years,
+            n.winter_scale,
+            n.energy_balance_relative_error,
+            n.deepest_frost_day
+        );
+    }
+    if let Some(b) = &f.bleed {
+        let _ = write!(
+            h,
+            "<tr><td>Bleed flow keeping {:.0} m of main at or above {:.1} °C (water in at {:.1} °C, ground at {:.1} °C)</td><td class=\"n\"><b>{:.2} l/min</b></td></tr>\n",
+            b.length_m, b.min_temperature_c, b.inlet_temperature_c, b.ground_temperature_c, b.flow_l_per_min
+        );
+    }
+    if let (Some(width), Some(b)) = (f.board_width_m, &f.board) {
+        let text = match width {
+            Some(w) if w <= 0.0 => "none needed".to_string(),
+            Some(w) => format!("<b>{w:.2} m</b>"),
+            None => format!("none up to {:.2} m", b.max_width_m),
+        };
+        let _ = write!(
+            h,
+            "<tr><td>Insulation board {:.0} mm, {:.3} W/(m K), {:.2} m above the crown: narrowest width keeping the crown above 0 °C (engine, no heat from the water)</td><td class=\"n\">{}</td></tr>\n",
+            b.thickness_m * 1000.0,
+            b.conductivity_w_m_k,
+            b.gap_m,
+            text
         );
     }
     if let Some(s) = &f.stagnant {
@@ -153,9 +273,22 @@ pub fn section(h: &mut String, f: &FrostResult) {
     }
 }
 
+/// The CSV files of a frost study: file name and text.
+pub fn csv_files(s: &StudyResult, f: &FrostResult) -> Vec<(String, String)> {
+    let mut files = vec![(format!("{}-degree-days.csv", s.id), degree_days_csv(f))];
+    if let Some(n) = &f.numerical {
+        let mut t = String::from("days_from_season_start,free_field_frost_depth_m\n");
+        for (d, x) in n.series_days.iter().zip(&n.series_frost_depth_m) {
+            let _ = writeln!(t, "{d:.4},{x:.4}");
+        }
+        files.push((format!("{}-frost-depth.csv", s.id), t));
+    }
+    files
+}
+
 /// `<id>-degree-days.csv`: the cumulative curve of the design season.
 pub fn degree_days_csv(f: &FrostResult) -> String {
-    let mut s = String::from("days_from_1_july,cumulative_surface_degree_days_c_d\n");
+    let mut s = String::from("days_from_season_start,cumulative_surface_degree_days_c_d\n");
     for (d, v) in f.cumulative_degree_days.iter().enumerate() {
         let _ = writeln!(s, "{d},{v:.4}");
     }

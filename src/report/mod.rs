@@ -70,7 +70,7 @@ fn csv_files(results: &Results) -> Vec<(String, String)> {
     for s in &results.studies {
         match &s.figures {
             Figures::HeatLoss(h) => files.push((format!("{}-monthly.csv", s.id), heat_loss::monthly_csv(h))),
-            Figures::Frost(f) => files.push((format!("{}-degree-days.csv", s.id), frost::degree_days_csv(f))),
+            Figures::Frost(f) => files.extend(frost::csv_files(s, f)),
             Figures::CrossSection(c) => {
                 files.push((format!("{}-series.csv", s.id), cross_section::series_csv(c)))
             }

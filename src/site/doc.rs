@@ -143,8 +143,8 @@ pub enum StudyDoc {
     HeatLoss(super::kinds::heat_loss::HeatLossDoc),
     /// A free 2-D cross-section of the ground solved by the finite-volume engine.
     CrossSection(super::kinds::cross_section::CrossSectionDoc),
-    /// Design freezing index, frost depth by Stefan and modified Berggren, and a water main's
-    /// safety.
+    /// Design freezing index, frost depth by Stefan, modified Berggren and the engine's design
+    /// winter, and a water main's safety (cover, stagnant water, bleed flow, insulation board).
     Frost(super::kinds::frost::FrostDoc),
     /// A field of ground heat exchangers for a heat pump: g-function, borehole resistance, fluid
     /// temperatures over the design life, and length sizing.

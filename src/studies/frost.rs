@@ -4,21 +4,25 @@
 use crate::calendar::{civil_from_days, days_from_civil};
 use crate::ground::climate::SurfaceYear;
 use crate::ground::profile::Undisturbed;
-use crate::model::{Climate, DAY_S, Frost, NFactors, Pipe, PipeDrive, Site};
+use crate::model::{Climate, DAY_S, Frost, Method, NFactors, Pipe, PipeDrive, Site};
 use crate::physics::buried_pipe::{GroundForm, Soil, ground::ground_resistance_m_k_per_w};
 use crate::physics::frost as fp;
 use crate::results::*;
+use crate::studies::frost_numerical::{self as numerical, DEFAULT_RESOLUTION, PipeRun, Winter};
 
 /// Volumetric heat capacity of water near 0 °C, J/(m3 K): 999.8 kg/m3 × 4219 J/(kg K) (IAPWS-95
 /// at 0.01 °C, from memory).
 const WATER_C_J_M3_K: f64 = 4.218e6;
 /// Latent heat of freezing per m3 of water: 1000 kg/m3 × 333.55 kJ/kg (IAPWS).
 const WATER_LATENT_J_M3: f64 = 333.55e6;
-/// Day of the year (0-based) of 1 July in a 365-day year: the freezing season's start.
-const JULY_1: usize = 181;
+/// Day of the year (0-based, 365-day year) of a month and day.
+fn day_of_year((month, day): (u32, u32)) -> usize {
+    (days_from_civil(2001, month, day) - days_from_civil(2001, 1, 1)) as usize
+}
 
 pub fn run(
     id: &str,
+    method: Method,
     f: &Frost,
     site: &Site,
     ground: &Undisturbed,
@@ -35,10 +39,11 @@ pub fn run(
     let daily: Vec<f64> = (0..365)
         .map(|d| year.surface_c((d as f64 + 0.5) * DAY_S))
         .collect();
-    let season: Vec<f64> = (0..365).map(|d| daily[(d + JULY_1) % 365]).collect();
+    let start_day = day_of_year(f.season_start);
+    let season: Vec<f64> = (0..365).map(|d| daily[(d + start_day) % 365]).collect();
     let n_f = air_n_factors(&climate).map_or(1.0, |n| n.freezing);
 
-    let (surface_index, air_index, basis, seasons) = design_index(f, &climate, &season, n_f)?;
+    let (surface_index, air_index, basis, seasons) = design_index(f, &climate, &season, start_day, n_f)?;
     if matches!(climate, Climate::MonthlyAir { .. }) && f.design_air_freezing_index_c_days.is_none() {
         warnings.push(warn(
             Level::Caution,
@@ -82,24 +87,64 @@ pub fn run(
     } else {
         None
     };
-    let governing = berggren
+    let analytic = method != Method::Numerical;
+    let analytic_depth = berggren
         .map(|b| b.depth_m)
         .or(stefan)
         .unwrap_or_else(|| ground.max_frost_depth_m(crate::ground::profile::DEFAULT_PROFILE_DEPTH_M));
+    // The engine's winter needs a winter: a surface year scaled to the design index.
+    let winter = if method == Method::Analytic && f.board.is_none() {
+        None
+    } else {
+        match Winter::new(year.clone(), start_day as f64 * DAY_S, surface_index) {
+            Ok(w) => Some(w),
+            Err(e) if analytic => {
+                warnings.push(warn(
+                    Level::Caution,
+                    "frost.no_numerical_winter",
+                    format!("the engine's winter was not run: {e}"),
+                ));
+                None
+            }
+            Err(e) => return Err(format!("study {id}: {e}")),
+        }
+    };
+    let run = match (&winter, method) {
+        (Some(w), Method::Numerical | Method::Both) => Some(numerical_run(site, ground, f.pipe.as_ref(), w)?),
+        _ => None,
+    };
+    if let Some((r, _)) = &run
+        && r.energy_balance_relative_error > 1e-4
+    {
+        warnings.push(warn(
+            Level::Caution,
+            "frost.energy_balance",
+            format!(
+                "the engine's energy balance closes only to {:.1e} of the heat throughput",
+                r.energy_balance_relative_error
+            ),
+        ));
+    }
+    let numerical_depth = run.as_ref().map(|(r, _)| r.free_field_depth_m);
+    let governing = match (analytic, numerical_depth) {
+        (true, Some(n)) => berggren.map_or(n, |b| b.depth_m.max(n)),
+        (false, Some(n)) => n,
+        _ => analytic_depth,
+    };
 
     let mut result = FrostResult {
         design_freezing_index_c_days: surface_index,
         air_freezing_index_c_days: air_index,
         design_index_basis: basis,
         frost_depth_m: FrostDepths {
-            stefan,
-            berggren: berggren.map(|b| b.depth_m),
-            numerical: None,
+            stefan: stefan.filter(|_| analytic),
+            berggren: berggren.map(|b| b.depth_m).filter(|_| analytic),
+            numerical: numerical_depth,
         },
         max_frost_depth_m: governing,
         mean_annual_surface_c: mean_annual,
         freezing_season_days: season_days,
-        berggren: berggren.map(|b| BerggrenFigures {
+        berggren: berggren.filter(|_| analytic).map(|b| BerggrenFigures {
             lambda: b.lambda,
             thermal_ratio: b.alpha,
             fusion_parameter: b.mu,
@@ -112,6 +157,11 @@ pub fn run(
         required_cover_m: None,
         margin_m: f.margin_m,
         stagnant: None,
+        season_start: season_start_text(f.season_start),
+        numerical: run.map(|(r, circle)| Box::new(numerical_figures(r, circle, winter.as_ref()))),
+        bleed: None,
+        board_width_m: None,
+        board: None,
         cumulative_degree_days: fp::cumulative_degree_days(&season)?,
         lowest_profile: (0..=100)
             .map(|i| {
@@ -122,8 +172,104 @@ pub fn run(
     };
     if let Some(pipe) = &f.pipe {
         pipe_checks(id, f, pipe, site, ground, &mut result, &mut warnings)?;
+        if let (Some(board), Some(w)) = (&f.board, &winter) {
+            board_figures(pipe, board, site, ground, w, &mut result)?;
+        }
     }
     Ok((result, warnings))
+}
+
+/// A pipe's centre (x, depth) and outer radius in the field's coordinates, m.
+type PipeCircle = (f64, f64, f64);
+
+/// `MM-DD` of a (month, day).
+fn season_start_text((month, day): (u32, u32)) -> String {
+    format!("{month:02}-{day:02}")
+}
+
+/// The engine's winter with the pipe when there is one, else of the bare ground; with the
+/// pipe's circle (x, depth, radius) in the field's coordinates.
+fn numerical_run(
+    site: &Site,
+    ground: &Undisturbed,
+    pipe: Option<&Pipe>,
+    winter: &Winter,
+) -> Result<(PipeRun, Option<PipeCircle>), String> {
+    let r = numerical::winter_run(site, ground, pipe, winter, &DEFAULT_RESOLUTION)?;
+    Ok((r, pipe.map(|p| (0.0, p.depth_m, p.outer_radius_m()))))
+}
+
+/// Figures of the engine's winter; the field cropped to the region around the pipe and the
+/// frost.
+fn numerical_figures(
+    r: PipeRun,
+    circle: Option<PipeCircle>,
+    winter: Option<&Winter>,
+) -> FrostNumericalFigures {
+    let snap = &r.field;
+    let nx = snap.x_m.len();
+    let z_max = (2.0 * r.free_field_depth_m)
+        .max(circle.map_or(0.0, |c| c.1 + 1.0))
+        .max(2.0);
+    let keep_x: Vec<usize> = (0..nx).filter(|&i| snap.x_m[i].abs() <= 3.0).collect();
+    let keep_z: Vec<usize> = (0..snap.z_m.len()).filter(|&j| snap.z_m[j] <= z_max).collect();
+    let field = Field {
+        label: format!("day {:.0} of the design season, deepest frost", r.deepest_day),
+        x_m: keep_x.iter().map(|&i| snap.x_m[i]).collect(),
+        z_m: keep_z.iter().map(|&j| snap.z_m[j]).collect(),
+        values_c: keep_z
+            .iter()
+            .map(|&j| keep_x.iter().map(|&i| snap.t_c[j * nx + i]).collect())
+            .collect(),
+    };
+    FrostNumericalFigures {
+        cells: r.cells,
+        time_step_h: DEFAULT_RESOLUTION.winter_step_s / 3600.0,
+        spin_up_years: numerical::SPIN_UP_YEARS,
+        winter_scale: winter.map_or(1.0, |w| w.scale),
+        free_field_frost_depth_m: r.free_field_depth_m,
+        deepest_frost_day: r.deepest_day,
+        pipe_min_wall_temperature_c: circle.map(|_| r.wall_min_c),
+        ground_min_at_pipe_c: circle.map(|_| r.ground_min_at_pipe_c),
+        energy_balance_relative_error: r.energy_balance_relative_error,
+        series_days: r.days,
+        series_frost_depth_m: r.frost_depth_m,
+        field: Some(field),
+        pipe_circle: circle,
+    }
+}
+
+/// The board search (only when frost reaches the crown by the governing depth).
+fn board_figures(
+    pipe: &Pipe,
+    board: &crate::model::FrostBoard,
+    site: &Site,
+    ground: &Undisturbed,
+    winter: &Winter,
+    r: &mut FrostResult,
+) -> Result<(), String> {
+    let (width, trials) = if r.frost_reaches_pipe == Some(true) {
+        let s = numerical::board_search(site, ground, pipe, board, winter)?;
+        (s.width_m, s.trials)
+    } else {
+        (Some(0.0), Vec::new())
+    };
+    r.board_width_m = Some(width);
+    r.board = Some(Box::new(BoardFigures {
+        thickness_m: board.thickness_m,
+        conductivity_w_m_k: board.conductivity_w_m_k,
+        gap_m: board.gap_m,
+        max_width_m: board.max_width_m,
+        trials: trials
+            .iter()
+            .map(|t| BoardTrialFigure {
+                width_m: t.width_m,
+                crown_min_temperature_c: t.crown_min_c,
+                frost_depth_over_pipe_m: t.frost_depth_m,
+            })
+            .collect(),
+    }));
+    Ok(())
 }
 
 /// The climate with the study's surface preset's n-factors in place of its own (air climates
@@ -182,6 +328,7 @@ fn design_index(
     f: &Frost,
     climate: &Climate,
     season: &[f64],
+    start_day: usize,
     n_f: f64,
 ) -> Result<(f64, Option<f64>, String, Vec<SeasonFigure>), String> {
     if let Some(air_index) = f.design_air_freezing_index_c_days {
@@ -193,12 +340,21 @@ fn design_index(
         ));
     }
     match climate {
+        // The closed form counts the whole winter; it holds when the season starts on a day
+        // above 0 °C (a sinusoid's freezing spell is one piece), else the season cuts the winter
+        // and the cumulative curve of the season's days counts only its larger part.
         Climate::AnnualWave {
             mean_c, amplitude_k, ..
-        } => Ok((
+        } if season.first().is_some_and(|t| *t >= 0.0) => Ok((
             fp::sinusoid_freezing_index_c_days(*mean_c, *amplitude_k, 365.0)?,
             None,
             "closed form of the annual surface wave, (P/π)(A sin θ − m θ), θ = acos(m/A)".into(),
+            Vec::new(),
+        )),
+        Climate::AnnualWave { .. } => Ok((
+            fp::freezing_index_c_days(season)?,
+            None,
+            "cumulative degree-day curve of the annual wave's days; the season start falls in the winter and splits it (TM 5-852-6)".into(),
             Vec::new(),
         )),
         Climate::MonthlyAir { air_c, .. } => {
@@ -210,7 +366,7 @@ fn design_index(
                 },
             });
             let air_season: Vec<f64> = (0..365)
-                .map(|d| air_year.air_c(((d + JULY_1) % 365) as f64 * DAY_S + 0.5 * DAY_S))
+                .map(|d| air_year.air_c(((d + start_day) % 365) as f64 * DAY_S + 0.5 * DAY_S))
                 .collect();
             Ok((
                 fp::freezing_index_c_days(season)?,
@@ -252,15 +408,19 @@ fn series_index(
                 first_day: d,
                 daily_mean_c: v,
             },
-            fp::FREEZING_SEASON_START,
+            fp::MonthDay {
+                month: f.season_start.0,
+                day: f.season_start.1,
+            },
         )
     };
     let surface = record(&daily_surface)?;
     let air = record(&daily_air)?;
     if surface.is_empty() {
         return Err(format!(
-            "the temperature file `{}` holds no complete freezing season (1 July to 30 June); give at least one",
-            s.source
+            "the temperature file `{}` holds no complete freezing season (a year from {}); give at least one",
+            s.source,
+            season_start_text(f.season_start)
         ));
     }
     let seasons: Vec<SeasonFigure> = surface
@@ -360,8 +520,44 @@ fn pipe_checks(
         wall_min = wall_min.min(t_wall);
         ground_min = ground_min.min(t_g);
     }
-    r.pipe_min_temperature_c = Some(wall_min);
+    // The engine's coldest wall, where it ran, replaces the series-resistance estimate; so does
+    // its coldest free-field ground at the pipe depth for the bleed flow.
+    let numerical = r.numerical.as_ref();
+    r.pipe_min_temperature_c = numerical
+        .and_then(|n| n.pipe_min_wall_temperature_c)
+        .or(Some(wall_min));
     r.water_min_temperature_c = water_min.is_finite().then_some(water_min);
+    if let Some(bleed) = &f.bleed {
+        let ground_c = numerical
+            .and_then(|n| n.ground_min_at_pipe_c)
+            .unwrap_or(ground_min);
+        let resistance = r_wall + r_ground;
+        match fp::bleed_flow_m3_s(
+            water_min,
+            ground_c,
+            bleed.min_temperature_c,
+            bleed.length_m,
+            WATER_C_J_M3_K,
+            resistance,
+        ) {
+            Ok(flow) => {
+                r.bleed = Some(Box::new(BleedFigures {
+                    length_m: bleed.length_m,
+                    flow_l_per_min: flow * 60_000.0,
+                    inlet_temperature_c: water_min,
+                    ground_temperature_c: ground_c,
+                    min_temperature_c: bleed.min_temperature_c,
+                    resistance_m_k_per_w: resistance,
+                }))
+            }
+            Err(e) => warnings.push(Warning {
+                study: Some(id.to_string()),
+                level: Level::Caution,
+                code: "frost.bleed_not_possible".into(),
+                message: format!("no bleed flow was found: {e}"),
+            }),
+        }
+    }
     if let Some(duration) = f.stagnant_s {
         let initial = if water_min.is_finite() {
             water_min

@@ -8,6 +8,7 @@
 pub mod borefield;
 pub mod cross_section;
 pub mod frost;
+pub mod frost_numerical;
 pub mod heat_loss;
 
 use crate::ground::profile::Undisturbed;
@@ -26,7 +27,7 @@ pub fn run(study: &Study, site: &Site, ground: &Undisturbed) -> Result<(StudyRes
             (Figures::HeatLoss(r), w)
         }
         StudyKind::Frost(f) => {
-            let (r, w) = frost::run(&study.id, f, site, ground)?;
+            let (r, w) = frost::run(&study.id, study.method, f, site, ground)?;
             (Figures::Frost(r), w)
         }
         StudyKind::Borefield(b) => {

@@ -1,7 +1,7 @@
 //! `kind: frost`: design freezing index, frost depth, and whether a water main is safe.
 
 use super::MethodDoc;
-use crate::model::{Frost, Method};
+use crate::model::{Frost, FrostBleed, FrostBoard, Method, PipeDrive};
 use crate::site::diagnostic::KeyPath;
 use crate::site::doc::PipeDoc;
 use crate::site::quantity::*;
@@ -9,8 +9,18 @@ use crate::site::validate::{self, Validator};
 use schemars::JsonSchema;
 use serde::Deserialize;
 
-/// The methods this kind offers (the numerical run arrives with the engine).
-pub const METHODS: [Method; 1] = [Method::Analytic];
+/// The methods this kind offers: the analytic formulas, the engine's winter run, or both.
+pub const METHODS: [Method; 3] = [Method::Analytic, Method::Numerical, Method::Both];
+
+/// Clear distance between a board's underside and the pipe crown when the site file gives none,
+/// m (`common practice, no source`: a bedding layer of about 0.1 m of sand between board and
+/// pipe).
+pub const DEFAULT_BOARD_GAP_M: f64 = 0.1;
+/// Widest board tried when the site file gives no `max_width`, m.
+pub const DEFAULT_BOARD_MAX_WIDTH_M: f64 = 3.0;
+/// Volumetric heat capacity of a foam board when none is given, J/(m3 K): extruded polystyrene,
+/// about 35 kg/m3 × 1450 J/(kg K) (from memory; its effect on a winter is negligible).
+pub const DEFAULT_BOARD_HEAT_CAPACITY_J_M3_K: f64 = 0.05e6;
 
 /// Frost penetration under the site's climate and whether a water main at its cover stays
 /// frost-free.
@@ -20,7 +30,9 @@ pub struct FrostDoc {
     /// A unique name for the study, used in the report and in file names (letters, digits, `-`,
     /// `_`, `.`).
     pub id: String,
-    /// `analytic` (Stefan and modified Berggren, the default).
+    /// `analytic` (Stefan and modified Berggren, the default), `numerical` (the finite-volume
+    /// engine's run of the design winter with the pipe in place, after two spin-up years) or
+    /// `both`.
     #[serde(default)]
     pub method: Option<MethodDoc>,
     /// The main or service line to check (optional).
@@ -45,6 +57,54 @@ pub struct FrostDoc {
     /// A period without flow in the coldest weather: how long the water stands.
     #[serde(default)]
     pub stagnant: Option<StagnantDoc>,
+    /// First day of the freezing season over which the freezing index is counted, as `MM-DD`
+    /// (default `07-01`, 1 July; use e.g. `01-01` in the southern hemisphere).
+    #[serde(default)]
+    pub season_start: Option<String>,
+    /// Find the flow that keeps the water above freezing along a length of main in the coldest
+    /// ground (needs a pipe driven by its water temperature).
+    #[serde(default)]
+    pub bleed: Option<Box<BleedDoc>>,
+    /// An insulation board laid flat above the main: when frost reaches the main, the study
+    /// finds the narrowest width that keeps the crown above 0 °C (engine runs).
+    #[serde(default)]
+    pub board: Option<Box<BoardDoc>>,
+}
+
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct BleedDoc {
+    /// Length of main between the warm supply and the far end, in m.
+    pub length: Q<Length>,
+    /// Lowest water temperature allowed at the far end, in °C (default 0 °C).
+    #[serde(default)]
+    pub min_temperature: Option<Q<Temperature>>,
+}
+
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct BoardDoc {
+    /// Board thickness, in m.
+    pub thickness: Q<Length>,
+    /// Board thermal conductivity, in W/(m K) (extruded polystyrene about 0.03–0.04).
+    pub conductivity: Q<Conductivity>,
+    /// Board volumetric heat capacity, in J/(m3 K) (default 0.05e6, extruded polystyrene).
+    #[serde(default)]
+    pub heat_capacity: Option<Q<VolumetricHeatCapacity>>,
+    /// Clear distance between the board's underside and the pipe crown, in m (default 0.1 m).
+    #[serde(default)]
+    pub gap: Option<Q<Length>>,
+    /// Widest board to try, in m (default 3 m).
+    #[serde(default)]
+    pub max_width: Option<Q<Length>>,
+}
+
+/// `MM-DD` → (month, day) of a day every year has.
+fn month_day(text: &str) -> Option<(u32, u32)> {
+    let (m, d) = text.trim().split_once('-')?;
+    let (m, d): (u32, u32) = (m.parse().ok()?, d.parse().ok()?);
+    const DAYS: [u32; 12] = [31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
+    ((1..=12).contains(&m) && d >= 1 && d <= DAYS[(m - 1) as usize]).then_some((m, d))
 }
 
 #[derive(Debug, Deserialize, JsonSchema)]
@@ -118,6 +178,58 @@ pub fn validate(doc: &FrostDoc, path: &KeyPath, v: &mut Validator) -> Option<Fro
             )
             .map(Some),
     };
+    let season_start = match &doc.season_start {
+        None => Some((7, 1)),
+        Some(text) => {
+            let md = month_day(text);
+            if md.is_none() {
+                v.out.error(
+                    &path.key("season_start"),
+                    format!("`{text}` is not a day of the year; write it as MM-DD, e.g. 07-01 (29 February is not allowed)"),
+                );
+            }
+            md
+        }
+    };
+    let bleed = match &doc.bleed {
+        None => Some(None),
+        Some(b) => {
+            let p = path.key("bleed");
+            let length = v.positive_q(&b.length, &p.key("length"), "the bleed length");
+            let min_t = match &b.min_temperature {
+                None => Some(0.0),
+                Some(q) => {
+                    let t = v.q(q, &p.key("min_temperature"));
+                    v.within(
+                        t,
+                        (0.0, 30.0),
+                        &p.key("min_temperature"),
+                        "the lowest water temperature",
+                    )
+                }
+            };
+            let fluid_driven = doc.pipe.as_ref().is_some_and(|p| p.fluid.is_some());
+            if !fluid_driven {
+                v.out.error(
+                    &p,
+                    "a bleed flow needs a `pipe` driven by its water temperature (`fluid: {temperature}`)",
+                );
+                None
+            } else {
+                match (length, min_t) {
+                    (Some(length_m), Some(min_temperature_c)) => Some(Some(FrostBleed {
+                        length_m,
+                        min_temperature_c,
+                    })),
+                    _ => None,
+                }
+            }
+        }
+    };
+    let board = match &doc.board {
+        None => Some(None),
+        Some(b) => board(b, &path.key("board"), v, doc.pipe.is_some()),
+    };
     if doc.stagnant.is_some() && doc.pipe.is_none() {
         v.out.error(
             &path.key("stagnant"),
@@ -125,12 +237,74 @@ pub fn validate(doc: &FrostDoc, path: &KeyPath, v: &mut Validator) -> Option<Fro
         );
         return None;
     }
-    Some(Frost {
+    let f = Frost {
         pipe: pipe?,
         design_air_freezing_index_c_days: index?,
         surface_preset: surface?,
         return_period_years: return_period?,
         margin_m: margin?,
         stagnant_s: stagnant?,
-    })
+        season_start: season_start?,
+        bleed: bleed?,
+        board: board?,
+    };
+    check_with_pipe(&f, path, v).then_some(f)
+}
+
+fn board(b: &BoardDoc, p: &KeyPath, v: &mut Validator, has_pipe: bool) -> Option<Option<FrostBoard>> {
+    let thickness = v.positive_q(&b.thickness, &p.key("thickness"), "the board thickness");
+    let k = v.positive_q(&b.conductivity, &p.key("conductivity"), "the board conductivity");
+    let c = match &b.heat_capacity {
+        None => Some(DEFAULT_BOARD_HEAT_CAPACITY_J_M3_K),
+        Some(q) => v.positive_q(q, &p.key("heat_capacity"), "the board heat capacity"),
+    };
+    let gap = match &b.gap {
+        None => Some(DEFAULT_BOARD_GAP_M),
+        Some(q) => {
+            let g = v.q(q, &p.key("gap"));
+            v.within(g, (0.0, 2.0), &p.key("gap"), "the gap between board and crown")
+        }
+    };
+    let max_width = match &b.max_width {
+        None => Some(DEFAULT_BOARD_MAX_WIDTH_M),
+        Some(q) => {
+            let w = v.q(q, &p.key("max_width"));
+            v.within(w, (0.05, 20.0), &p.key("max_width"), "the widest board")
+        }
+    };
+    if !has_pipe {
+        v.out.error(p, "a board needs a `pipe` to lie above");
+        return None;
+    }
+    Some(Some(FrostBoard {
+        thickness_m: thickness?,
+        conductivity_w_m_k: k?,
+        heat_capacity_j_m3_k: c?,
+        gap_m: gap?,
+        max_width_m: max_width?,
+    }))
+}
+
+/// Checks that need the validated pipe: the board must lie in the ground, a bleed flow needs the
+/// water temperature.
+fn check_with_pipe(f: &Frost, path: &KeyPath, v: &mut Validator) -> bool {
+    let Some(pipe) = &f.pipe else { return true };
+    let mut ok = true;
+    if let Some(b) = &f.board {
+        let top = pipe.cover_m() - b.gap_m - b.thickness_m;
+        if top <= 0.0 {
+            v.out.error(
+                &path.key("board"),
+                format!(
+                    "the board would stick out of the ground (its top at {top:.3} m): the crown is {:.3} m deep, so gap plus thickness must be less than that",
+                    pipe.cover_m()
+                ),
+            );
+            ok = false;
+        }
+    }
+    if f.bleed.is_some() && !matches!(pipe.drive, PipeDrive::FluidTemperature { .. }) {
+        ok = false;
+    }
+    ok
 }
