@@ -67,6 +67,36 @@ pub(crate) struct Coefficients {
     pub gx: Vec<f64>,
     /// z-face conductances, `(nz − 1)·nx`.
     pub gz: Vec<f64>,
+    /// Cells of the domain (`false` inside pipes: `m = 1`, no faces, `r = 0`).
+    pub active: Vec<bool>,
+    /// Pipe-wall nodes eliminated into the system (only for solvers whose
+    /// [`CellSolver::eliminates_walls`] is true; empty otherwise).
+    pub nodes: Vec<WallNode>,
+}
+
+/// A pipe-wall temperature eliminated from the cell system. The wall node obeys
+/// `a·T_w − Σ g_c·T_c = b` (`a = Σ g_c + 1/R_wall` behind a wall resistance,
+/// `a = Σ g_c` for a given heat rate), so `T_w = (Σ g_c·T_c + b)/a` and the cell
+/// rows gain the symmetric rank-one term `−g·gᵀ/a` (a Schur complement of the
+/// symmetric positive definite system with the wall node, hence itself SPD).
+#[derive(Debug, Clone, Default)]
+pub(crate) struct WallNode {
+    /// `(cell, link conductance g_c)`.
+    pub links: Vec<(usize, f64)>,
+    /// `1/a`.
+    pub inv_a: f64,
+}
+
+impl WallNode {
+    /// `Σ g_c·x_c`.
+    pub fn link_sum(&self, x: &[f64]) -> f64 {
+        self.links.iter().map(|&(c, g)| g * x[c]).sum()
+    }
+
+    /// `Σ g_c`.
+    pub fn conductance(&self) -> f64 {
+        self.links.iter().map(|&(_, g)| g).sum()
+    }
 }
 
 impl Coefficients {
@@ -78,12 +108,37 @@ impl Coefficients {
             d: vec![0.0; nx * nz],
             gx: vec![0.0; nz * (nx - 1)],
             gz: vec![0.0; (nz - 1) * nx],
+            active: vec![true; nx * nz],
+            nodes: Vec::new(),
         }
     }
 
-    /// `out = (K − M)·x`: the boundary and conduction terms only, row by row in
-    /// gather form (each output written once, vectorisable).
+    /// `out = (K − M)·x`: the boundary and conduction terms (and the eliminated
+    /// wall nodes) only.
     pub fn multiply_conduction(&self, x: &[f64], out: &mut [f64]) {
+        self.multiply_stencil(x, out);
+        for node in &self.nodes {
+            let s = node.link_sum(x) * node.inv_a;
+            for &(c, g) in &node.links {
+                out[c] -= g * s;
+            }
+        }
+    }
+
+    /// `Σ_c (K·1_active)_c = Σ_active (m + d) − Σ_nodes (Σ g)²/a`: the faces
+    /// cancel in the sum (faces to cells outside the domain are zero).
+    pub fn total_weight(&self) -> f64 {
+        let diagonal: f64 = (self.m.iter().zip(&self.d).zip(&self.active))
+            .filter(|(_, a)| **a)
+            .map(|((m, d), _)| m + d)
+            .sum();
+        let nodes: f64 = self.nodes.iter().map(|n| n.conductance().powi(2) * n.inv_a).sum();
+        diagonal - nodes
+    }
+
+    /// The 5-point stencil part of `(K − M)·x`, row by row in gather form (each
+    /// output written once, vectorisable).
+    fn multiply_stencil(&self, x: &[f64], out: &mut [f64]) {
         let (nx, nz) = (self.nx, self.nz);
         for iz in 0..nz {
             let row = iz * nx..(iz + 1) * nx;
@@ -181,6 +236,15 @@ pub(crate) trait CellSolver {
     /// Numeric factorisations so far.
     fn factorisations(&self) -> usize {
         0
+    }
+    /// Iterations of an iterative solver so far (0 for the others).
+    fn iterations(&self) -> usize {
+        0
+    }
+    /// Whether the solver takes pipe-wall nodes eliminated into the system
+    /// ([`Coefficients::nodes`]) instead of wall responses computed by the caller.
+    fn eliminates_walls(&self) -> bool {
+        false
     }
 }
 
@@ -489,6 +553,8 @@ pub(crate) struct PcgSolver {
     west_q: Vec<f64>,
     east_q: Vec<f64>,
     stale: bool,
+    /// `Σ K·1` of the prepared coefficients.
+    weight: f64,
     tolerance: f64,
     residual: Vec<f64>,
     z: Vec<f64>,
@@ -514,6 +580,7 @@ impl PcgSolver {
             west_q: vec![0.0; n],
             east_q: vec![0.0; n],
             stale: true,
+            weight: 1.0,
             tolerance,
             residual: vec![0.0; n],
             z: vec![0.0; n],
@@ -638,6 +705,7 @@ impl CellSolver for PcgSolver {
         if self.stale {
             self.factor(k);
         }
+        self.weight = k.total_weight();
         Ok(())
     }
 
@@ -646,6 +714,14 @@ impl CellSolver for PcgSolver {
     }
 
     fn uses_guess(&self) -> bool {
+        true
+    }
+
+    fn iterations(&self) -> usize {
+        self.iterations
+    }
+
+    fn eliminates_walls(&self) -> bool {
         true
     }
 
@@ -667,13 +743,20 @@ impl CellSolver for PcgSolver {
         if dot(&self.residual, &self.residual).sqrt() > target {
             self.iterate(k, out, target);
         }
-        // Global balance: K·1 = m + d (the faces cancel), so a uniform shift
-        // γ = Σ residual / Σ (m + d) makes the residual sum to zero exactly and
-        // the step conserves energy to round-off whatever the tolerance.
-        let left: f64 = self.residual.iter().sum();
-        let weight: f64 = k.m.iter().zip(&k.d).map(|(m, d)| m + d).sum();
-        let shift = left / weight;
-        out.iter_mut().for_each(|x| *x += shift);
+        // Global balance: Σ K·1 = Σ (m + d) − Σ g²/a over the domain's cells (the
+        // faces cancel), so a uniform shift γ = Σ residual / Σ K·1 of the domain's
+        // cells makes their residual sum to zero exactly and the step conserves
+        // energy to round-off whatever the tolerance.
+        let left: f64 = (self.residual.iter().zip(&k.active))
+            .filter(|(_, a)| **a)
+            .map(|(r, _)| r)
+            .sum();
+        let shift = left / self.weight;
+        for (x, a) in out.iter_mut().zip(&k.active) {
+            if *a {
+                *x += shift;
+            }
+        }
     }
 }
 

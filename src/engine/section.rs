@@ -84,7 +84,7 @@ use std::f64::consts::PI;
 use crate::checks::positive as check_positive;
 
 use crate::engine::grid::{Axis, Grading, Zone};
-use crate::engine::linear::{AdiSolver, CellSolver, Coefficients, DirectSolver, PcgSolver};
+use crate::engine::linear::{AdiSolver, CellSolver, Coefficients, DirectSolver, PcgSolver, WallNode};
 use crate::engine::material::Material;
 
 pub use crate::engine::linear::SolverKind;
@@ -386,8 +386,13 @@ pub struct Solution {
     pub cells: usize,
     /// Linear solves (solver applications) in the run.
     pub linear_solves: usize,
-    /// Numeric Cholesky factorisations (direct solver).
+    /// Numeric factorisations (Cholesky, or preconditioner set-ups).
     pub factorisations: usize,
+    /// Iterations of the iterative linear solver over the run (0 for the others).
+    pub linear_iterations: usize,
+    /// Freezing (Swaminathan–Voller) iterations over the run: solves of the cell
+    /// system excluding the pipe-wall responses.
+    pub nonlinear_iterations: usize,
 }
 
 /// Result of [`solve_steady`].
@@ -977,6 +982,15 @@ struct Stepper<'m> {
     check_all: bool,
     /// Whether each cell is in `nonlinear`.
     is_nonlinear: Vec<bool>,
+    /// Transient runs take each cell's conductivity at the start of the step
+    /// (the latent heat stays implicit); steady solves iterate it (Picard).
+    lag_conductivity: bool,
+    /// Cells whose conductivity moved since it was last taken (lagged mode), and
+    /// whether each cell is listed there.
+    k_dirty: Vec<usize>,
+    in_k_dirty: Vec<bool>,
+    /// Whether the solver takes the node pipes' walls eliminated into the system.
+    eliminate_walls: bool,
     /// Sum of the pipe-link factors of each cell (link conductance = factor·k).
     link_factor: Vec<f64>,
     /// `V/Δt` of active cells (0 elsewhere) at `inverse_dt`.
@@ -1004,6 +1018,8 @@ struct Stepper<'m> {
     delta: Vec<f64>,
     work: Vec<f64>,
     solves: usize,
+    /// Freezing iterations (cell-system solves without the wall responses).
+    iterations: usize,
     bottom_flux_w_m2: f64,
 }
 
@@ -1019,6 +1035,7 @@ struct Flows {
 impl<'m> Stepper<'m> {
     fn new(mesh: &'m Mesh, solver: Box<dyn CellSolver>, t: Vec<f64>, bottom_flux_w_m2: f64) -> Self {
         let n = mesh.cells();
+        let eliminate_walls = solver.eliminates_walls();
         let mut link_factor = vec![0.0; n];
         for coupling in &mesh.couplings {
             for &(c, factor) in &coupling.links {
@@ -1033,7 +1050,10 @@ impl<'m> Stepper<'m> {
         Self {
             mesh,
             solver,
-            coefficients: Coefficients::new(mesh.nx, mesh.nz),
+            coefficients: Coefficients {
+                active: mesh.active.clone(),
+                ..Coefficients::new(mesh.nx, mesh.nz)
+            },
             k_used: vec![f64::NAN; n],
             c_used: vec![f64::NAN; n],
             nonlinear: (0..n)
@@ -1045,6 +1065,10 @@ impl<'m> Stepper<'m> {
                 .map(|c| mesh.active[c] && !mesh.material[c].is_linear())
                 .collect(),
             link_factor,
+            lag_conductivity: false,
+            k_dirty: Vec::new(),
+            in_k_dirty: vec![false; n],
+            eliminate_walls,
             storage: vec![0.0; n],
             inverse_dt: f64::NAN,
             prepared: false,
@@ -1062,6 +1086,7 @@ impl<'m> Stepper<'m> {
             delta: vec![0.0; n],
             work: vec![0.0; n],
             solves: 0,
+            iterations: 0,
             bottom_flux_w_m2,
         }
     }
@@ -1107,24 +1132,38 @@ impl<'m> Stepper<'m> {
             return true;
         }
         let mut changed = false;
+        // Conductivities are re-taken every iteration (steady, Picard) or only in
+        // the first iteration of a step (transient, lagged).
+        let update_k = !self.lag_conductivity || self.first_iteration;
         let candidates = if self.check_all {
             std::mem::take(&mut self.nonlinear)
         } else {
             std::mem::take(&mut self.dirty)
         };
-        for &c in &candidates {
+        let k_cells = if update_k && self.lag_conductivity {
+            std::mem::take(&mut self.k_dirty)
+        } else {
+            Vec::new()
+        };
+        for &c in candidates.iter().chain(&k_cells) {
             let m = &mesh.material[c];
-            let (k, cap) = (m.conductivity(self.t[c]), m.capacity(self.t[c]));
+            let cap = m.capacity(self.t[c]);
             if cap != self.c_used[c] {
                 self.c_used[c] = cap;
                 self.coefficients.m[c] = mesh.volume[c] * cap * inverse_dt;
                 changed = true;
             }
-            if k != self.k_used[c] {
-                self.k_used[c] = k;
-                self.rebuild_cell_conductances(c);
-                changed = true;
+            if update_k {
+                let k = m.conductivity(self.t[c]);
+                if k != self.k_used[c] {
+                    self.k_used[c] = k;
+                    self.rebuild_cell_conductances(c);
+                    changed = true;
+                }
             }
+        }
+        for &c in &k_cells {
+            self.in_k_dirty[c] = false;
         }
         if self.check_all {
             self.nonlinear = candidates;
@@ -1250,9 +1289,12 @@ impl<'m> Stepper<'m> {
         let mesh = self.mesh;
         let nx = mesh.nx;
         if self.update_coefficients(inverse_dt) || !self.prepared {
+            if self.eliminate_walls {
+                self.coefficients.nodes = self.wall_nodes(walls);
+            }
             self.solver.prepare(&self.coefficients)?;
             self.prepared = true;
-            self.responses_current = false;
+            self.responses_current = self.eliminate_walls;
         }
         // Responses of an older operator would only slow the convergence (the wall
         // temperatures are lagged below), but where the soil at a pipe freezes the
@@ -1305,6 +1347,13 @@ impl<'m> Stepper<'m> {
                         self.r[c] += share * total;
                     }
                 }
+                Wall::Fluid(..) | Wall::Rate(_) if self.eliminate_walls => {
+                    // The wall node is eliminated: its source term `g·b/a`.
+                    let (inv_a, b) = self.node_terms(p, wall);
+                    for (c, g) in self.link_g(p).collect::<Vec<_>>() {
+                        self.r[c] += g * b * inv_a;
+                    }
+                }
                 Wall::Fluid(..) | Wall::Rate(_) => {
                     // Lagged wall temperature; corrected through the response below.
                     let t_lag = self.walls_lag[p];
@@ -1326,8 +1375,13 @@ impl<'m> Stepper<'m> {
         self.solver
             .apply_from(&self.coefficients, &self.r, &mut self.delta);
         self.solves += 1;
+        self.iterations += 1;
         for (d, t) in self.delta.iter_mut().zip(&self.t) {
             *d += t;
+        }
+        if self.eliminate_walls {
+            let walls_c = self.eliminated_walls(walls);
+            return Ok(self.flows(walls, &walls_c, surface_c));
         }
         // Wall temperatures of node pipes: a small dense system on the link cells,
         // with the lagged walls' contribution `Σ T_lag·u` taken out there.
@@ -1361,6 +1415,48 @@ impl<'m> Stepper<'m> {
             }
         }
         Ok(self.flows(walls, &walls_c, surface_c))
+    }
+
+    /// `(1/a, b)` of an eliminated wall node ([`WallNode`]): behind a wall
+    /// resistance `a = Σg + 1/R`, `b = T_f/R`; with a given heat rate `a = Σg`, `b = q`.
+    fn node_terms(&self, p: usize, wall: &Wall) -> (f64, f64) {
+        let g: f64 = self.link_g(p).map(|(_, g)| g).sum();
+        match *wall {
+            Wall::Fluid(t_f, r) => (1.0 / (g + 1.0 / r), t_f / r),
+            Wall::Rate(total) => (1.0 / g, total),
+            _ => (0.0, 0.0),
+        }
+    }
+
+    /// The node pipes' walls as eliminated nodes at the current conductivities.
+    fn wall_nodes(&self, walls: &[Wall]) -> Vec<WallNode> {
+        walls
+            .iter()
+            .enumerate()
+            .filter(|(_, w)| matches!(w, Wall::Fluid(..) | Wall::Rate(_)))
+            .map(|(p, w)| WallNode {
+                links: self.link_g(p).collect(),
+                inv_a: self.node_terms(p, w).0,
+            })
+            .collect()
+    }
+
+    /// Wall temperatures from the solved cells when the walls were eliminated:
+    /// `T_w = (Σ g·T* + b)/a`.
+    fn eliminated_walls(&self, walls: &[Wall]) -> Vec<f64> {
+        walls
+            .iter()
+            .enumerate()
+            .map(|(p, w)| match *w {
+                Wall::Fixed(t) => t,
+                Wall::Fluid(..) | Wall::Rate(_) => {
+                    let (inv_a, b) = self.node_terms(p, w);
+                    let sum: f64 = self.link_g(p).map(|(c, g)| g * self.delta[c]).sum();
+                    (sum + b) * inv_a
+                }
+                Wall::Uniform(_) => f64::NAN,
+            })
+            .collect()
     }
 
     /// Solves the wall balances of the node pipes given `self.delta = T*` without
@@ -1495,8 +1591,18 @@ impl<'m> Stepper<'m> {
             let (h, t_new) = if self.is_nonlinear[c] {
                 let m = &mesh.material[c];
                 let (h, t_new) = m.linearised_update(self.h[c], t_old, self.delta[c]);
-                if !m.linearisation_exact(t_old, t_new) {
-                    // Its k or C changes: the coefficients are rebuilt there.
+                let exact_here = if self.lag_conductivity {
+                    // Only the capacity is iterated; k follows at the next step.
+                    if !self.in_k_dirty[c] && m.conductivity(t_new) != self.k_used[c] {
+                        self.in_k_dirty[c] = true;
+                        self.k_dirty.push(c);
+                    }
+                    m.piece(t_old) == m.piece(t_new)
+                } else {
+                    m.linearisation_exact(t_old, t_new)
+                };
+                if !exact_here {
+                    // Its C (or k) changes: the coefficients are rebuilt there.
                     exact = false;
                     self.dirty.push(c);
                 }
@@ -1726,6 +1832,7 @@ pub fn solve_transient(model: &SectionModel, opts: &TransientOptions) -> Result<
     let mesh = Mesh::build(model, &opts.grid)?;
     let t0 = initial_field(&mesh, &opts.initial)?;
     let mut stepper = Stepper::new(&mesh, new_solver(opts.solver, &mesh)?, t0, model.bottom_flux_w_m2);
+    stepper.lag_conductivity = true;
     let drives = Drives::of(model);
     let limits = IterationLimits {
         max_iterations: opts.max_iterations,
@@ -1743,6 +1850,8 @@ pub fn solve_transient(model: &SectionModel, opts: &TransientOptions) -> Result<
         cells: mesh.cells(),
         linear_solves: 0,
         factorisations: 0,
+        linear_iterations: 0,
+        nonlinear_iterations: 0,
     };
     let mut pending: Vec<f64> = opts
         .snapshot_times_s
@@ -1795,6 +1904,8 @@ pub fn solve_transient(model: &SectionModel, opts: &TransientOptions) -> Result<
     solution.energy_balance_relative_error = relative(imbalance, throughput);
     solution.linear_solves = stepper.solves;
     solution.factorisations = stepper.solver.factorisations();
+    solution.linear_iterations = stepper.solver.iterations();
+    solution.nonlinear_iterations = stepper.iterations;
     Ok(solution)
 }
 
