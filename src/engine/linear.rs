@@ -868,4 +868,45 @@ mod tests {
             assert!((a - b).abs() < 1e-12, "{a} {b}");
         }
     }
+
+    #[test]
+    fn preconditioned_cg_with_a_wall_node_matches_the_augmented_direct_solve() {
+        // K_eff = K − g·gᵀ/a against the Cholesky solve of the system with the wall
+        // node as one more unknown, eliminated by hand: x = K⁻¹(r + g·T_w) with
+        // T_w = (gᵀx + b)/a, i.e. T_w = (gᵀK⁻¹r + b)/(a − gᵀK⁻¹g).
+        let (nx, nz) = (9, 7);
+        let mut k = sample(nx, nz);
+        let links = vec![(31, 0.7), (32, 0.4), (40, 0.9)];
+        let (a, b) = (2.0 + 2.0, 3.0);
+        let mut direct = DirectSolver::new(nx, nz).unwrap();
+        // The node's link conductances sit on the diagonal of K.
+        for &(c, g) in &links {
+            k.d[c] += g;
+        }
+        direct.prepare(&k).unwrap();
+        let r: Vec<f64> = (0..nx * nz).map(|i| (i as f64 * 0.61).cos()).collect();
+        let mut kr = vec![0.0; nx * nz];
+        direct.apply(&k, &r, &mut kr);
+        let mut g = vec![0.0; nx * nz];
+        for &(c, v) in &links {
+            g[c] = v;
+        }
+        let mut kg = vec![0.0; nx * nz];
+        direct.apply(&k, &g, &mut kg);
+        let t_w = (dot(&g, &kr) + b) / (a - dot(&g, &kg));
+        let expected: Vec<f64> = kr.iter().zip(&kg).map(|(x, y)| x + t_w * y).collect();
+
+        k.nodes = vec![WallNode {
+            links,
+            inv_a: 1.0 / a,
+        }];
+        let rhs: Vec<f64> = r.iter().zip(&g).map(|(r, g)| r + g * b / a).collect();
+        let mut pcg = PcgSolver::new(nx, nz, 1e-12);
+        pcg.prepare(&k).unwrap();
+        let mut x = vec![0.0; nx * nz];
+        pcg.apply(&k, &rhs, &mut x);
+        for (e, x) in expected.iter().zip(&x) {
+            assert!((e - x).abs() < 1e-9, "{e} {x}");
+        }
+    }
 }
