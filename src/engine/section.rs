@@ -353,6 +353,11 @@ pub struct Snapshot {
     pub z_m: Vec<f64>,
     /// `t_c[iz * x_m.len() + ix]`, °C; cells inside a pipe hold its wall temperature.
     pub t_c: Vec<f64>,
+    /// Heat-flux density `q = −k∇T` at the cell centres, W/m², across (towards
+    /// +x or +r) and down (towards depth), same layout as `t_c`; NaN inside pipes.
+    /// See [`Stepper::heat_flux_w_m2`] for how it is formed from the face flows.
+    pub q_x_w_m2: Vec<f64>,
+    pub q_z_w_m2: Vec<f64>,
 }
 
 /// Time series of one pipe or the borehole.
@@ -431,6 +436,7 @@ struct Coupling {
 }
 
 struct Mesh {
+    geometry: Geometry,
     x: Axis,
     z: Axis,
     nx: usize,
@@ -726,6 +732,7 @@ impl Mesh {
         let bottom_area = (0..nx).map(area_top).collect();
 
         let mut mesh = Self {
+            geometry,
             x,
             z,
             nx,
@@ -1760,6 +1767,81 @@ fn fluid_c(model: &SectionModel, p: usize, t_s: f64, wall_c: f64, q_w_per_m: f64
 }
 
 impl Stepper<'_> {
+    /// Heat-flux density `q = −k∇T` (W/m²) at the cell centres of the field `t`
+    /// (°C), across and down. Each face carries the flow of the cell system,
+    /// `g_face·(T_a − T_b)` with the series face conductance `g_face` the solver
+    /// used (so the arrows follow the discrete heat flow exactly), divided by the
+    /// face area (planar: per metre of length; r–z: `2πr·Δz` and the annulus).
+    /// A cell's component is the mean over its two opposite faces; the symmetry
+    /// sides count with zero flux and the bottom with the geothermal flux, while
+    /// faces to a pipe and the ground surface are left out (one-sided value).
+    /// NaN inside pipes.
+    fn heat_flux_w_m2(&self, t: &[f64]) -> (Vec<f64>, Vec<f64>) {
+        let mesh = self.mesh;
+        let (nx, nz) = (mesh.nx, mesh.nz);
+        let k = &self.coefficients;
+        let (xf, xw, zw) = (mesh.x.faces_m(), mesh.x.widths_m(), mesh.z.widths_m());
+        let axisymmetric = mesh.geometry == Geometry::Axisymmetric;
+        // Area of the x face at axis position `xf[i]` in row `iz`, and of the z faces of column `ix`.
+        let x_area = |i: usize, iz: usize| {
+            if axisymmetric {
+                2.0 * PI * xf[i] * zw[iz]
+            } else {
+                zw[iz]
+            }
+        };
+        let z_area = |ix: usize| {
+            if axisymmetric {
+                PI * (xf[ix + 1].powi(2) - xf[ix].powi(2))
+            } else {
+                xw[ix]
+            }
+        };
+        let mean = |faces: [Option<f64>; 2]| {
+            let (sum, count) = faces
+                .iter()
+                .flatten()
+                .fold((0.0, 0.0), |(s, n), q| (s + q, n + 1.0));
+            if count > 0.0 { sum / count } else { 0.0 }
+        };
+        let n = mesh.cells();
+        let (mut qx, mut qz) = (vec![f64::NAN; n], vec![f64::NAN; n]);
+        for iz in 0..nz {
+            for ix in 0..nx {
+                let c = iz * nx + ix;
+                if !mesh.active[c] {
+                    continue;
+                }
+                let x_face = |a: usize, f: usize, i: usize| {
+                    (mesh.active[a] && mesh.active[a + 1])
+                        .then(|| k.gx[f] * (t[a] - t[a + 1]) / x_area(i, iz))
+                };
+                let west = if ix == 0 {
+                    Some(0.0)
+                } else {
+                    x_face(c - 1, iz * (nx - 1) + ix - 1, ix)
+                };
+                let east = if ix + 1 == nx {
+                    Some(0.0)
+                } else {
+                    x_face(c, iz * (nx - 1) + ix, ix + 1)
+                };
+                qx[c] = mean([west, east]);
+                let z_face = |a: usize| {
+                    (mesh.active[a] && mesh.active[a + nx]).then(|| k.gz[a] * (t[a] - t[a + nx]) / z_area(ix))
+                };
+                let north = if iz == 0 { None } else { z_face(c - nx) };
+                let south = if iz + 1 == nz {
+                    Some(-self.bottom_flux_w_m2)
+                } else {
+                    z_face(c)
+                };
+                qz[c] = mean([north, south]);
+            }
+        }
+        (qx, qz)
+    }
+
     fn display_field(&self, walls_c: &[f64]) -> Vec<f64> {
         (0..self.mesh.cells())
             .map(|c| self.display_c(c, walls_c))
@@ -1808,12 +1890,15 @@ impl Stepper<'_> {
     }
 }
 
-fn snapshot(mesh: &Mesh, time_s: f64, t_c: Vec<f64>) -> Snapshot {
+fn snapshot(stepper: &Stepper, time_s: f64, t_c: Vec<f64>) -> Snapshot {
+    let (q_x_w_m2, q_z_w_m2) = stepper.heat_flux_w_m2(&t_c);
     Snapshot {
         time_s,
-        x_m: mesh.x.centres_m().to_vec(),
-        z_m: mesh.z.centres_m().to_vec(),
+        x_m: stepper.mesh.x.centres_m().to_vec(),
+        z_m: stepper.mesh.z.centres_m().to_vec(),
         t_c,
+        q_x_w_m2,
+        q_z_w_m2,
     }
 }
 
@@ -1895,7 +1980,7 @@ pub fn solve_transient(model: &SectionModel, opts: &TransientOptions) -> Result<
             while let Some(&t_snap) = pending.first().filter(|&&t| t <= t_s) {
                 let w = ((t_snap - t_start) / dt).clamp(0.0, 1.0);
                 let field = before.iter().zip(&after).map(|(a, b)| a + w * (b - a)).collect();
-                solution.snapshots.push(snapshot(&mesh, t_snap, field));
+                solution.snapshots.push(snapshot(&stepper, t_snap, field));
                 pending.remove(0);
             }
         }
@@ -1967,7 +2052,7 @@ pub fn solve_steady(model: &SectionModel, grid: &GridOptions, t_s: f64) -> Resul
         .map(|p| fluid_c(model, p, t_s, flows.walls_c[p], heat_rate[p]))
         .collect();
     Ok(SteadySolution {
-        field: snapshot(&mesh, t_s, stepper.display_field(&flows.walls_c)),
+        field: snapshot(&stepper, t_s, stepper.display_field(&flows.walls_c)),
         heat_rate_w_per_m: heat_rate,
         wall_c: flows.walls_c.clone(),
         fluid_c: fluid,
