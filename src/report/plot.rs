@@ -1079,9 +1079,10 @@ pub struct FieldPlot {
 }
 
 /// Vectors drawn as arrows over a field plot (e.g. heat flux). The plot only scales them: each
-/// arrow is centred on its point, its length proportional to the vector's magnitude (the
-/// longest spans 0.9 of the closest spacing between arrows), and a key arrow of a round value
-/// with `unit` states the scale in the top-left corner.
+/// arrow is centred on its point, its length proportional to the vector's magnitude (the 90th
+/// percentile of the magnitudes spans 0.9 of the closest spacing between arrows; the few longer
+/// ones, e.g. next to a pipe, are capped at 1.5 times that, and the key then says so), and a
+/// key arrow of a round value with `unit` states the scale in the top-left corner.
 #[derive(Debug, Clone, PartialEq, Default)]
 pub struct ArrowLayer {
     /// `(x_m, z_m, across, down)`: position and components, `down` positive with depth.
@@ -1498,8 +1499,8 @@ fn draw_arrow<DB: DrawingBackend>(
 }
 
 /// Arrows centred on their points (pixels, components in data units with `down` positive
-/// downward), scaled so the longest spans 0.9 of the closest spacing, and the scale key in the
-/// corner `corner` of the plotting area. Arrows shorter than 2 px are left out.
+/// downward), scaled as [`ArrowLayer`] says, and the scale key in the corner `corner` of the
+/// plotting area. Arrows shorter than 2 px are left out.
 fn draw_arrows<DB: DrawingBackend>(
     root: &DrawingArea<DB, Shift>,
     arrows: &[((i32, i32), (f64, f64))],
@@ -1507,10 +1508,17 @@ fn draw_arrows<DB: DrawingBackend>(
     corner: (i32, i32),
     font: &TextStyle,
 ) -> Result<(), String> {
-    let longest = arrows.iter().map(|(_, (u, w))| u.hypot(*w)).fold(0.0, f64::max);
-    if arrows.is_empty() || !(longest > 0.0) {
+    let mut sizes: Vec<f64> = arrows
+        .iter()
+        .map(|(_, (u, w))| u.hypot(*w))
+        .filter(|m| *m > 0.0)
+        .collect();
+    if sizes.is_empty() {
         return Ok(());
     }
+    sizes.sort_by(f64::total_cmp);
+    let reference = sizes[(0.9 * (sizes.len() - 1) as f64).round() as usize];
+    let cap = 1.5 * reference;
     let mut spacing = f64::INFINITY;
     for (i, (a, _)) in arrows.iter().enumerate() {
         for (b, _) in &arrows[i + 1..] {
@@ -1523,9 +1531,17 @@ fn draw_arrows<DB: DrawingBackend>(
     if !spacing.is_finite() {
         spacing = 40.0;
     }
-    let px_per_unit = 0.9 * spacing / longest;
+    let px_per_unit = 0.9 * spacing / reference;
+    let mut capped = false;
     for &((x, y), (u, w)) in arrows {
-        let (vx, vy) = (u * px_per_unit, w * px_per_unit);
+        let size = u.hypot(w);
+        let shrink = if size > cap {
+            capped = true;
+            cap / size
+        } else {
+            1.0
+        };
+        let (vx, vy) = (u * px_per_unit * shrink, w * px_per_unit * shrink);
         if vx.hypot(vy) < 2.0 {
             continue;
         }
@@ -1537,9 +1553,12 @@ fn draw_arrows<DB: DrawingBackend>(
         )?;
     }
     // Key: an arrow of a round value and its label on a white box.
-    let key = nice_below(longest);
+    let key = nice_below(reference);
     let key_px = key * px_per_unit;
-    let text = format!("{} {unit}", format_tick(key, key));
+    let mut text = format!("{} {unit}", format_tick(key, key));
+    if capped {
+        text.push_str(&format!(" (capped at {})", format_tick(cap, cap)));
+    }
     let (tw, th) = root.estimate_text_size(&text, font).unwrap_or((0, 0));
     let (bx, by) = (corner.0 + 6, corner.1 + 6);
     let box_w = key_px.round() as i32 + tw as i32 + 16;
