@@ -45,7 +45,10 @@
 //!   uniformly so that the residual sums to zero (`K·1 = m + d`): energy is
 //!   conserved to round-off whatever the tolerance. The preconditioner is
 //!   refactored only when a solve needed many iterations; callers may pass a
-//!   starting guess (`apply_from`).
+//!   starting guess (`apply_from`). Pipe walls behind a resistance (or with a
+//!   given heat rate) are eliminated into its operator as rank-one terms
+//!   ([`WallNode`]; the preconditioner ignores them), so the caller needs no
+//!   wall responses and a freezing iteration costs one solve.
 
 #![allow(clippy::needless_range_loop)] // index loops over cells mirror the stencil formulas
 

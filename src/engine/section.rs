@@ -46,7 +46,9 @@
 //!   heat rate: `q'` given) and is found by a capacitance (Schur complement) step:
 //!   the cell response to each wall temperature is precomputed with the same
 //!   solver, so one linear solve per step plus one per pipe after a change of
-//!   coefficients.
+//!   coefficients. The iterative solver instead takes each wall node eliminated
+//!   into the cell system (`T_w = (Σ g·T + b)/a`, a symmetric rank-one term, see
+//!   [`crate::engine::linear`]), so it needs no responses: one solve per iteration.
 //! * Borehole (r–z): the wall `r = r_b` between `top` and `bottom` is a grid face;
 //!   the cells inside are removed (ends adiabatic). A fluid-driven borehole has an
 //!   isothermal wall node behind `R_wall` (the borehole resistance); a
@@ -55,9 +57,13 @@
 //! * Time: backward Euler with a fixed step. Freezing uses the linearised enthalpy
 //!   update of Swaminathan & Voller (1992) ([`crate::engine::material`]): per
 //!   iteration one linear solve of the cell system built at the current iterate;
-//!   iteration stops when the linearisation was exact (no cell changed its piece of
-//!   H(T) and none has a temperature-dependent k) or no temperature moved by more
-//!   than the tolerance.
+//!   iteration stops when the linearisation was exact or no temperature moved by
+//!   more than the tolerance. In transient runs each cell's conductivity is taken
+//!   at the start of the step (lagged one step, first order in Δt like backward
+//!   Euler itself; the latent heat stays fully implicit), so the linearisation is
+//!   exact when no cell changed its piece of H(T) and most steps take one
+//!   iteration; the steady solve iterates the conductivity too (Picard), where a
+//!   mushy cell's k(T) makes the linearisation inexact.
 //! * Linear algebra ([`crate::engine::linear`]): sparse Cholesky (reference),
 //!   Douglas–Gunn ADI (fast, default without freezing) or preconditioned
 //!   conjugate gradients (default with freezing; the Cholesky result to the

@@ -1476,7 +1476,7 @@ fn draw_arrow<DB: DrawingBackend>(
     let (dx, dy) = (head.0 - tail.0, head.1 - tail.1);
     let len = dx.hypot(dy);
     let (ux, uy) = (dx / len, dy / len);
-    let barb = (0.4 * len).min(7.0).max(3.0);
+    let barb = (0.4 * len).clamp(3.0, 7.0);
     let base = (head.0 - barb * ux, head.1 - barb * uy);
     let side = 0.45 * barb;
     let pt = |x: f64, y: f64| (x.round() as i32, y.round() as i32);
@@ -1498,12 +1498,15 @@ fn draw_arrow<DB: DrawingBackend>(
         .map_err(drawing_error)
 }
 
+/// An arrow's point in pixels and its components in data units.
+type PixelArrow = ((i32, i32), (f64, f64));
+
 /// Arrows centred on their points (pixels, components in data units with `down` positive
 /// downward), scaled as [`ArrowLayer`] says, and the scale key in the corner `corner` of the
 /// plotting area. Arrows shorter than 2 px are left out.
 fn draw_arrows<DB: DrawingBackend>(
     root: &DrawingArea<DB, Shift>,
-    arrows: &[((i32, i32), (f64, f64))],
+    arrows: &[PixelArrow],
     unit: &str,
     corner: (i32, i32),
     font: &TextStyle,

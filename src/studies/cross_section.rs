@@ -306,7 +306,7 @@ pub fn flux_arrows(snap: &section::Snapshot, columns: usize) -> FluxArrows {
     };
     // The domain spans the outer faces; the centres are close enough for spacing.
     let spacing = (x1 - x0) / columns.max(1) as f64;
-    if !(spacing > 0.0) {
+    if spacing.is_nan() || spacing <= 0.0 {
         return arrows;
     }
     let nearest = |axis: &[f64], v: f64| {
