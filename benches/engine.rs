@@ -88,9 +88,11 @@ fn time_run(
         let s = solve_transient(&m, &opts).unwrap();
         times.push((start.elapsed().as_secs_f64(), cpu_s() - cpu));
         info = format!(
-            "cells {}, steps {steps}, solves/step {:.2}, factorisations {}, balance {:.1e}",
+            "cells {}, steps {steps}, solves/step {:.2}, freezing iterations/step {:.2}, CG iterations/solve {:.1}, factorisations {}, balance {:.1e}",
             s.cells,
             s.linear_solves as f64 / steps as f64,
+            s.nonlinear_iterations as f64 / steps as f64,
+            s.linear_iterations as f64 / s.linear_solves.max(1) as f64,
             s.factorisations,
             s.energy_balance_relative_error
         );

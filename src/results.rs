@@ -373,6 +373,21 @@ pub struct CrossSectionResult {
     pub series: SectionSeries,
     #[serde(skip)]
     pub fields: Vec<Field>,
+    /// Heat-flux arrows of each field (same order as `fields`).
+    #[serde(skip)]
+    pub flux: Vec<FluxArrows>,
+}
+
+/// Heat-flux density `q = −k∇T` sampled on a sparse grid of points, for arrows on a field
+/// plot (plain data; computed by the study from the engine's face flows).
+#[derive(Clone, Debug, Default)]
+pub struct FluxArrows {
+    /// Arrow positions, m across and m deep.
+    pub x_m: Vec<f64>,
+    pub z_m: Vec<f64>,
+    /// Components, W/m²: across (towards +x) and down (towards depth).
+    pub qx_w_m2: Vec<f64>,
+    pub qz_w_m2: Vec<f64>,
 }
 
 #[derive(Clone, Debug, Serialize)]

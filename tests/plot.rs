@@ -461,7 +461,10 @@ fn dependency_graph_has_no_system_font_library() {
 // Field plot
 // ---------------------------------------------------------------------------------------------
 
-use burrow::report::plot::{FieldPlot, chain_segments, colour_map, isoline_segments, render_field_plot};
+use burrow::report::plot::{
+    ARROW_RGB, ArrowLayer, FieldPlot, chain_segments, colour_map, isoline_segments, render_field_plot,
+    render_field_plot_with_arrows,
+};
 
 /// Rows of "t,r,g,b" from a reference CSV written by tests/reference/viridis_reference.py.
 fn read_colour_csv(name: &str) -> Vec<(f64, (u8, u8, u8))> {
@@ -810,4 +813,82 @@ fn smallest_and_extreme_aspect_sizes_render() {
         roxmltree::Document::parse(&out.svg).unwrap();
         assert_eq!(decode_png(&out.png).width, w);
     }
+}
+
+#[test]
+fn field_plot_draws_arrows_scaled_to_their_magnitude_with_a_scale_key() {
+    // Vectors pointing left (towards the low values of the demo field), magnitude 1 in the
+    // left half and 2 in the right half.
+    let mut arrows = Vec::new();
+    for i in 0..6 {
+        for j in 0..4 {
+            let x = -2.5 + f64::from(i);
+            arrows.push((x, 0.5 + f64::from(j), if x < 0.0 { -1.0 } else { -2.0 }, 0.0));
+        }
+    }
+    let layer = ArrowLayer {
+        arrows: arrows.clone(),
+        unit: "W/m²".into(),
+    };
+    let out = render_field_plot_with_arrows(&demo_field(), &layer, W, H).unwrap();
+    let doc = roxmltree::Document::parse(&out.svg).expect("well-formed SVG");
+    let fill = format!("#{:02X}{:02X}{:02X}", ARROW_RGB.0, ARROW_RGB.1, ARROW_RGB.2);
+    let heads: Vec<Vec<(f64, f64)>> = doc
+        .descendants()
+        .filter(|n| n.has_tag_name("polygon"))
+        .filter(|n| n.attribute("fill").is_some_and(|f| f.eq_ignore_ascii_case(&fill)))
+        .map(|n| {
+            n.attribute("points")
+                .unwrap()
+                .split_whitespace()
+                .map(|p| {
+                    let (a, b) = p.split_once(',').unwrap();
+                    (a.parse().unwrap(), b.parse().unwrap())
+                })
+                .collect()
+        })
+        .collect();
+    // One head per arrow and one for the scale key.
+    assert_eq!(heads.len(), arrows.len() + 1, "{}", out.svg.len());
+    // Every arrow of the field points left: its tip lies left of the two base corners.
+    let field_heads = &heads[..arrows.len()];
+    for h in field_heads {
+        assert!(h[0].0 < h[1].0 && h[0].0 < h[2].0, "{h:?}");
+    }
+    // The key states a round value of the largest magnitude (2) and the unit.
+    let texts = svg_texts(&out.svg);
+    assert!(texts.iter().any(|t| t == "2 W/m²"), "{texts:?}");
+    // Arrows of magnitude 2 are twice as long: compare the shafts drawn with the arrow colour.
+    let shafts: Vec<f64> = doc
+        .descendants()
+        .filter(|n| n.has_tag_name("polyline"))
+        .filter(|n| {
+            n.attribute("stroke")
+                .is_some_and(|f| f.eq_ignore_ascii_case(&fill))
+        })
+        .map(|n| {
+            let pts: Vec<f64> = n
+                .attribute("points")
+                .unwrap()
+                .split_whitespace()
+                .map(|p| p.split_once(',').unwrap().0.parse::<f64>().unwrap())
+                .collect();
+            (pts[pts.len() - 1] - pts[0]).abs()
+        })
+        .collect();
+    assert_eq!(shafts.len(), arrows.len() + 1);
+    let (short, long) = (shafts[0], shafts[arrows.len() - 1]);
+    // Shaft = length − head (≤ 7 px): the total lengths are 1 : 2 within a pixel or two.
+    println!("shafts {shafts:?}");
+    assert!(long > 1.6 * short, "{short} {long}");
+}
+
+#[test]
+fn field_plot_refuses_arrows_with_non_finite_components() {
+    let layer = ArrowLayer {
+        arrows: vec![(0.0, 1.0, f64::NAN, 1.0)],
+        unit: "W/m²".into(),
+    };
+    let err = render_field_plot_with_arrows(&demo_field(), &layer, W, H).unwrap_err();
+    assert!(err.contains("finite"), "{err}");
 }

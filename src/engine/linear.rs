@@ -45,7 +45,10 @@
 //!   uniformly so that the residual sums to zero (`K·1 = m + d`): energy is
 //!   conserved to round-off whatever the tolerance. The preconditioner is
 //!   refactored only when a solve needed many iterations; callers may pass a
-//!   starting guess (`apply_from`).
+//!   starting guess (`apply_from`). Pipe walls behind a resistance (or with a
+//!   given heat rate) are eliminated into its operator as rank-one terms
+//!   ([`WallNode`]; the preconditioner ignores them), so the caller needs no
+//!   wall responses and a freezing iteration costs one solve.
 
 #![allow(clippy::needless_range_loop)] // index loops over cells mirror the stencil formulas
 
@@ -67,6 +70,36 @@ pub(crate) struct Coefficients {
     pub gx: Vec<f64>,
     /// z-face conductances, `(nz − 1)·nx`.
     pub gz: Vec<f64>,
+    /// Cells of the domain (`false` inside pipes: `m = 1`, no faces, `r = 0`).
+    pub active: Vec<bool>,
+    /// Pipe-wall nodes eliminated into the system (only for solvers whose
+    /// [`CellSolver::eliminates_walls`] is true; empty otherwise).
+    pub nodes: Vec<WallNode>,
+}
+
+/// A pipe-wall temperature eliminated from the cell system. The wall node obeys
+/// `a·T_w − Σ g_c·T_c = b` (`a = Σ g_c + 1/R_wall` behind a wall resistance,
+/// `a = Σ g_c` for a given heat rate), so `T_w = (Σ g_c·T_c + b)/a` and the cell
+/// rows gain the symmetric rank-one term `−g·gᵀ/a` (a Schur complement of the
+/// symmetric positive definite system with the wall node, hence itself SPD).
+#[derive(Debug, Clone, Default)]
+pub(crate) struct WallNode {
+    /// `(cell, link conductance g_c)`.
+    pub links: Vec<(usize, f64)>,
+    /// `1/a`.
+    pub inv_a: f64,
+}
+
+impl WallNode {
+    /// `Σ g_c·x_c`.
+    pub fn link_sum(&self, x: &[f64]) -> f64 {
+        self.links.iter().map(|&(c, g)| g * x[c]).sum()
+    }
+
+    /// `Σ g_c`.
+    pub fn conductance(&self) -> f64 {
+        self.links.iter().map(|&(_, g)| g).sum()
+    }
 }
 
 impl Coefficients {
@@ -78,12 +111,37 @@ impl Coefficients {
             d: vec![0.0; nx * nz],
             gx: vec![0.0; nz * (nx - 1)],
             gz: vec![0.0; (nz - 1) * nx],
+            active: vec![true; nx * nz],
+            nodes: Vec::new(),
         }
     }
 
-    /// `out = (K − M)·x`: the boundary and conduction terms only, row by row in
-    /// gather form (each output written once, vectorisable).
+    /// `out = (K − M)·x`: the boundary and conduction terms (and the eliminated
+    /// wall nodes) only.
     pub fn multiply_conduction(&self, x: &[f64], out: &mut [f64]) {
+        self.multiply_stencil(x, out);
+        for node in &self.nodes {
+            let s = node.link_sum(x) * node.inv_a;
+            for &(c, g) in &node.links {
+                out[c] -= g * s;
+            }
+        }
+    }
+
+    /// `Σ_c (K·1_active)_c = Σ_active (m + d) − Σ_nodes (Σ g)²/a`: the faces
+    /// cancel in the sum (faces to cells outside the domain are zero).
+    pub fn total_weight(&self) -> f64 {
+        let diagonal: f64 = (self.m.iter().zip(&self.d).zip(&self.active))
+            .filter(|(_, a)| **a)
+            .map(|((m, d), _)| m + d)
+            .sum();
+        let nodes: f64 = self.nodes.iter().map(|n| n.conductance().powi(2) * n.inv_a).sum();
+        diagonal - nodes
+    }
+
+    /// The 5-point stencil part of `(K − M)·x`, row by row in gather form (each
+    /// output written once, vectorisable).
+    fn multiply_stencil(&self, x: &[f64], out: &mut [f64]) {
         let (nx, nz) = (self.nx, self.nz);
         for iz in 0..nz {
             let row = iz * nx..(iz + 1) * nx;
@@ -181,6 +239,15 @@ pub(crate) trait CellSolver {
     /// Numeric factorisations so far.
     fn factorisations(&self) -> usize {
         0
+    }
+    /// Iterations of an iterative solver so far (0 for the others).
+    fn iterations(&self) -> usize {
+        0
+    }
+    /// Whether the solver takes pipe-wall nodes eliminated into the system
+    /// ([`Coefficients::nodes`]) instead of wall responses computed by the caller.
+    fn eliminates_walls(&self) -> bool {
+        false
     }
 }
 
@@ -489,6 +556,8 @@ pub(crate) struct PcgSolver {
     west_q: Vec<f64>,
     east_q: Vec<f64>,
     stale: bool,
+    /// `Σ K·1` of the prepared coefficients.
+    weight: f64,
     tolerance: f64,
     residual: Vec<f64>,
     z: Vec<f64>,
@@ -514,6 +583,7 @@ impl PcgSolver {
             west_q: vec![0.0; n],
             east_q: vec![0.0; n],
             stale: true,
+            weight: 1.0,
             tolerance,
             residual: vec![0.0; n],
             z: vec![0.0; n],
@@ -638,6 +708,7 @@ impl CellSolver for PcgSolver {
         if self.stale {
             self.factor(k);
         }
+        self.weight = k.total_weight();
         Ok(())
     }
 
@@ -646,6 +717,14 @@ impl CellSolver for PcgSolver {
     }
 
     fn uses_guess(&self) -> bool {
+        true
+    }
+
+    fn iterations(&self) -> usize {
+        self.iterations
+    }
+
+    fn eliminates_walls(&self) -> bool {
         true
     }
 
@@ -667,13 +746,20 @@ impl CellSolver for PcgSolver {
         if dot(&self.residual, &self.residual).sqrt() > target {
             self.iterate(k, out, target);
         }
-        // Global balance: K·1 = m + d (the faces cancel), so a uniform shift
-        // γ = Σ residual / Σ (m + d) makes the residual sum to zero exactly and
-        // the step conserves energy to round-off whatever the tolerance.
-        let left: f64 = self.residual.iter().sum();
-        let weight: f64 = k.m.iter().zip(&k.d).map(|(m, d)| m + d).sum();
-        let shift = left / weight;
-        out.iter_mut().for_each(|x| *x += shift);
+        // Global balance: Σ K·1 = Σ (m + d) − Σ g²/a over the domain's cells (the
+        // faces cancel), so a uniform shift γ = Σ residual / Σ K·1 of the domain's
+        // cells makes their residual sum to zero exactly and the step conserves
+        // energy to round-off whatever the tolerance.
+        let left: f64 = (self.residual.iter().zip(&k.active))
+            .filter(|(_, a)| **a)
+            .map(|(r, _)| r)
+            .sum();
+        let shift = left / self.weight;
+        for (x, a) in out.iter_mut().zip(&k.active) {
+            if *a {
+                *x += shift;
+            }
+        }
     }
 }
 
@@ -783,6 +869,47 @@ mod tests {
         solver.apply(&k, &r, &mut y);
         for (a, b) in x.iter().zip(&y) {
             assert!((a - b).abs() < 1e-12, "{a} {b}");
+        }
+    }
+
+    #[test]
+    fn preconditioned_cg_with_a_wall_node_matches_the_augmented_direct_solve() {
+        // K_eff = K − g·gᵀ/a against the Cholesky solve of the system with the wall
+        // node as one more unknown, eliminated by hand: x = K⁻¹(r + g·T_w) with
+        // T_w = (gᵀx + b)/a, i.e. T_w = (gᵀK⁻¹r + b)/(a − gᵀK⁻¹g).
+        let (nx, nz) = (9, 7);
+        let mut k = sample(nx, nz);
+        let links = vec![(31, 0.7), (32, 0.4), (40, 0.9)];
+        let (a, b) = (2.0 + 2.0, 3.0);
+        let mut direct = DirectSolver::new(nx, nz).unwrap();
+        // The node's link conductances sit on the diagonal of K.
+        for &(c, g) in &links {
+            k.d[c] += g;
+        }
+        direct.prepare(&k).unwrap();
+        let r: Vec<f64> = (0..nx * nz).map(|i| (i as f64 * 0.61).cos()).collect();
+        let mut kr = vec![0.0; nx * nz];
+        direct.apply(&k, &r, &mut kr);
+        let mut g = vec![0.0; nx * nz];
+        for &(c, v) in &links {
+            g[c] = v;
+        }
+        let mut kg = vec![0.0; nx * nz];
+        direct.apply(&k, &g, &mut kg);
+        let t_w = (dot(&g, &kr) + b) / (a - dot(&g, &kg));
+        let expected: Vec<f64> = kr.iter().zip(&kg).map(|(x, y)| x + t_w * y).collect();
+
+        k.nodes = vec![WallNode {
+            links,
+            inv_a: 1.0 / a,
+        }];
+        let rhs: Vec<f64> = r.iter().zip(&g).map(|(r, g)| r + g * b / a).collect();
+        let mut pcg = PcgSolver::new(nx, nz, 1e-12);
+        pcg.prepare(&k).unwrap();
+        let mut x = vec![0.0; nx * nz];
+        pcg.apply(&k, &rhs, &mut x);
+        for (e, x) in expected.iter().zip(&x) {
+            assert!((e - x).abs() < 1e-9, "{e} {x}");
         }
     }
 }

@@ -46,7 +46,9 @@
 //!   heat rate: `q'` given) and is found by a capacitance (Schur complement) step:
 //!   the cell response to each wall temperature is precomputed with the same
 //!   solver, so one linear solve per step plus one per pipe after a change of
-//!   coefficients.
+//!   coefficients. The iterative solver instead takes each wall node eliminated
+//!   into the cell system (`T_w = (Σ g·T + b)/a`, a symmetric rank-one term, see
+//!   [`crate::engine::linear`]), so it needs no responses: one solve per iteration.
 //! * Borehole (r–z): the wall `r = r_b` between `top` and `bottom` is a grid face;
 //!   the cells inside are removed (ends adiabatic). A fluid-driven borehole has an
 //!   isothermal wall node behind `R_wall` (the borehole resistance); a
@@ -55,9 +57,13 @@
 //! * Time: backward Euler with a fixed step. Freezing uses the linearised enthalpy
 //!   update of Swaminathan & Voller (1992) ([`crate::engine::material`]): per
 //!   iteration one linear solve of the cell system built at the current iterate;
-//!   iteration stops when the linearisation was exact (no cell changed its piece of
-//!   H(T) and none has a temperature-dependent k) or no temperature moved by more
-//!   than the tolerance.
+//!   iteration stops when the linearisation was exact or no temperature moved by
+//!   more than the tolerance. In transient runs each cell's conductivity is taken
+//!   at the start of the step (lagged one step, first order in Δt like backward
+//!   Euler itself; the latent heat stays fully implicit), so the linearisation is
+//!   exact when no cell changed its piece of H(T) and most steps take one
+//!   iteration; the steady solve iterates the conductivity too (Picard), where a
+//!   mushy cell's k(T) makes the linearisation inexact.
 //! * Linear algebra ([`crate::engine::linear`]): sparse Cholesky (reference),
 //!   Douglas–Gunn ADI (fast, default without freezing) or preconditioned
 //!   conjugate gradients (default with freezing; the Cholesky result to the
@@ -84,7 +90,7 @@ use std::f64::consts::PI;
 use crate::checks::positive as check_positive;
 
 use crate::engine::grid::{Axis, Grading, Zone};
-use crate::engine::linear::{AdiSolver, CellSolver, Coefficients, DirectSolver, PcgSolver};
+use crate::engine::linear::{AdiSolver, CellSolver, Coefficients, DirectSolver, PcgSolver, WallNode};
 use crate::engine::material::Material;
 
 pub use crate::engine::linear::SolverKind;
@@ -353,6 +359,11 @@ pub struct Snapshot {
     pub z_m: Vec<f64>,
     /// `t_c[iz * x_m.len() + ix]`, °C; cells inside a pipe hold its wall temperature.
     pub t_c: Vec<f64>,
+    /// Heat-flux density `q = −k∇T` at the cell centres, W/m², across (towards
+    /// +x or +r) and down (towards depth), same layout as `t_c`; NaN inside pipes.
+    /// See [`Stepper::heat_flux_w_m2`] for how it is formed from the face flows.
+    pub q_x_w_m2: Vec<f64>,
+    pub q_z_w_m2: Vec<f64>,
 }
 
 /// Time series of one pipe or the borehole.
@@ -386,8 +397,13 @@ pub struct Solution {
     pub cells: usize,
     /// Linear solves (solver applications) in the run.
     pub linear_solves: usize,
-    /// Numeric Cholesky factorisations (direct solver).
+    /// Numeric factorisations (Cholesky, or preconditioner set-ups).
     pub factorisations: usize,
+    /// Iterations of the iterative linear solver over the run (0 for the others).
+    pub linear_iterations: usize,
+    /// Freezing (Swaminathan–Voller) iterations over the run: solves of the cell
+    /// system excluding the pipe-wall responses.
+    pub nonlinear_iterations: usize,
 }
 
 /// Result of [`solve_steady`].
@@ -426,6 +442,7 @@ struct Coupling {
 }
 
 struct Mesh {
+    geometry: Geometry,
     x: Axis,
     z: Axis,
     nx: usize,
@@ -721,6 +738,7 @@ impl Mesh {
         let bottom_area = (0..nx).map(area_top).collect();
 
         let mut mesh = Self {
+            geometry,
             x,
             z,
             nx,
@@ -977,6 +995,15 @@ struct Stepper<'m> {
     check_all: bool,
     /// Whether each cell is in `nonlinear`.
     is_nonlinear: Vec<bool>,
+    /// Transient runs take each cell's conductivity at the start of the step
+    /// (the latent heat stays implicit); steady solves iterate it (Picard).
+    lag_conductivity: bool,
+    /// Cells whose conductivity moved since it was last taken (lagged mode), and
+    /// whether each cell is listed there.
+    k_dirty: Vec<usize>,
+    in_k_dirty: Vec<bool>,
+    /// Whether the solver takes the node pipes' walls eliminated into the system.
+    eliminate_walls: bool,
     /// Sum of the pipe-link factors of each cell (link conductance = factor·k).
     link_factor: Vec<f64>,
     /// `V/Δt` of active cells (0 elsewhere) at `inverse_dt`.
@@ -1004,6 +1031,8 @@ struct Stepper<'m> {
     delta: Vec<f64>,
     work: Vec<f64>,
     solves: usize,
+    /// Freezing iterations (cell-system solves without the wall responses).
+    iterations: usize,
     bottom_flux_w_m2: f64,
 }
 
@@ -1019,6 +1048,7 @@ struct Flows {
 impl<'m> Stepper<'m> {
     fn new(mesh: &'m Mesh, solver: Box<dyn CellSolver>, t: Vec<f64>, bottom_flux_w_m2: f64) -> Self {
         let n = mesh.cells();
+        let eliminate_walls = solver.eliminates_walls();
         let mut link_factor = vec![0.0; n];
         for coupling in &mesh.couplings {
             for &(c, factor) in &coupling.links {
@@ -1033,7 +1063,10 @@ impl<'m> Stepper<'m> {
         Self {
             mesh,
             solver,
-            coefficients: Coefficients::new(mesh.nx, mesh.nz),
+            coefficients: Coefficients {
+                active: mesh.active.clone(),
+                ..Coefficients::new(mesh.nx, mesh.nz)
+            },
             k_used: vec![f64::NAN; n],
             c_used: vec![f64::NAN; n],
             nonlinear: (0..n)
@@ -1045,6 +1078,10 @@ impl<'m> Stepper<'m> {
                 .map(|c| mesh.active[c] && !mesh.material[c].is_linear())
                 .collect(),
             link_factor,
+            lag_conductivity: false,
+            k_dirty: Vec::new(),
+            in_k_dirty: vec![false; n],
+            eliminate_walls,
             storage: vec![0.0; n],
             inverse_dt: f64::NAN,
             prepared: false,
@@ -1062,6 +1099,7 @@ impl<'m> Stepper<'m> {
             delta: vec![0.0; n],
             work: vec![0.0; n],
             solves: 0,
+            iterations: 0,
             bottom_flux_w_m2,
         }
     }
@@ -1107,24 +1145,38 @@ impl<'m> Stepper<'m> {
             return true;
         }
         let mut changed = false;
+        // Conductivities are re-taken every iteration (steady, Picard) or only in
+        // the first iteration of a step (transient, lagged).
+        let update_k = !self.lag_conductivity || self.first_iteration;
         let candidates = if self.check_all {
             std::mem::take(&mut self.nonlinear)
         } else {
             std::mem::take(&mut self.dirty)
         };
-        for &c in &candidates {
+        let k_cells = if update_k && self.lag_conductivity {
+            std::mem::take(&mut self.k_dirty)
+        } else {
+            Vec::new()
+        };
+        for &c in candidates.iter().chain(&k_cells) {
             let m = &mesh.material[c];
-            let (k, cap) = (m.conductivity(self.t[c]), m.capacity(self.t[c]));
+            let cap = m.capacity(self.t[c]);
             if cap != self.c_used[c] {
                 self.c_used[c] = cap;
                 self.coefficients.m[c] = mesh.volume[c] * cap * inverse_dt;
                 changed = true;
             }
-            if k != self.k_used[c] {
-                self.k_used[c] = k;
-                self.rebuild_cell_conductances(c);
-                changed = true;
+            if update_k {
+                let k = m.conductivity(self.t[c]);
+                if k != self.k_used[c] {
+                    self.k_used[c] = k;
+                    self.rebuild_cell_conductances(c);
+                    changed = true;
+                }
             }
+        }
+        for &c in &k_cells {
+            self.in_k_dirty[c] = false;
         }
         if self.check_all {
             self.nonlinear = candidates;
@@ -1250,9 +1302,12 @@ impl<'m> Stepper<'m> {
         let mesh = self.mesh;
         let nx = mesh.nx;
         if self.update_coefficients(inverse_dt) || !self.prepared {
+            if self.eliminate_walls {
+                self.coefficients.nodes = self.wall_nodes(walls);
+            }
             self.solver.prepare(&self.coefficients)?;
             self.prepared = true;
-            self.responses_current = false;
+            self.responses_current = self.eliminate_walls;
         }
         // Responses of an older operator would only slow the convergence (the wall
         // temperatures are lagged below), but where the soil at a pipe freezes the
@@ -1305,6 +1360,13 @@ impl<'m> Stepper<'m> {
                         self.r[c] += share * total;
                     }
                 }
+                Wall::Fluid(..) | Wall::Rate(_) if self.eliminate_walls => {
+                    // The wall node is eliminated: its source term `g·b/a`.
+                    let (inv_a, b) = self.node_terms(p, wall);
+                    for (c, g) in self.link_g(p).collect::<Vec<_>>() {
+                        self.r[c] += g * b * inv_a;
+                    }
+                }
                 Wall::Fluid(..) | Wall::Rate(_) => {
                     // Lagged wall temperature; corrected through the response below.
                     let t_lag = self.walls_lag[p];
@@ -1326,8 +1388,13 @@ impl<'m> Stepper<'m> {
         self.solver
             .apply_from(&self.coefficients, &self.r, &mut self.delta);
         self.solves += 1;
+        self.iterations += 1;
         for (d, t) in self.delta.iter_mut().zip(&self.t) {
             *d += t;
+        }
+        if self.eliminate_walls {
+            let walls_c = self.eliminated_walls(walls);
+            return Ok(self.flows(walls, &walls_c, surface_c));
         }
         // Wall temperatures of node pipes: a small dense system on the link cells,
         // with the lagged walls' contribution `Σ T_lag·u` taken out there.
@@ -1361,6 +1428,48 @@ impl<'m> Stepper<'m> {
             }
         }
         Ok(self.flows(walls, &walls_c, surface_c))
+    }
+
+    /// `(1/a, b)` of an eliminated wall node ([`WallNode`]): behind a wall
+    /// resistance `a = Σg + 1/R`, `b = T_f/R`; with a given heat rate `a = Σg`, `b = q`.
+    fn node_terms(&self, p: usize, wall: &Wall) -> (f64, f64) {
+        let g: f64 = self.link_g(p).map(|(_, g)| g).sum();
+        match *wall {
+            Wall::Fluid(t_f, r) => (1.0 / (g + 1.0 / r), t_f / r),
+            Wall::Rate(total) => (1.0 / g, total),
+            _ => (0.0, 0.0),
+        }
+    }
+
+    /// The node pipes' walls as eliminated nodes at the current conductivities.
+    fn wall_nodes(&self, walls: &[Wall]) -> Vec<WallNode> {
+        walls
+            .iter()
+            .enumerate()
+            .filter(|(_, w)| matches!(w, Wall::Fluid(..) | Wall::Rate(_)))
+            .map(|(p, w)| WallNode {
+                links: self.link_g(p).collect(),
+                inv_a: self.node_terms(p, w).0,
+            })
+            .collect()
+    }
+
+    /// Wall temperatures from the solved cells when the walls were eliminated:
+    /// `T_w = (Σ g·T* + b)/a`.
+    fn eliminated_walls(&self, walls: &[Wall]) -> Vec<f64> {
+        walls
+            .iter()
+            .enumerate()
+            .map(|(p, w)| match *w {
+                Wall::Fixed(t) => t,
+                Wall::Fluid(..) | Wall::Rate(_) => {
+                    let (inv_a, b) = self.node_terms(p, w);
+                    let sum: f64 = self.link_g(p).map(|(c, g)| g * self.delta[c]).sum();
+                    (sum + b) * inv_a
+                }
+                Wall::Uniform(_) => f64::NAN,
+            })
+            .collect()
     }
 
     /// Solves the wall balances of the node pipes given `self.delta = T*` without
@@ -1495,8 +1604,18 @@ impl<'m> Stepper<'m> {
             let (h, t_new) = if self.is_nonlinear[c] {
                 let m = &mesh.material[c];
                 let (h, t_new) = m.linearised_update(self.h[c], t_old, self.delta[c]);
-                if !m.linearisation_exact(t_old, t_new) {
-                    // Its k or C changes: the coefficients are rebuilt there.
+                let exact_here = if self.lag_conductivity {
+                    // Only the capacity is iterated; k follows at the next step.
+                    if !self.in_k_dirty[c] && m.conductivity(t_new) != self.k_used[c] {
+                        self.in_k_dirty[c] = true;
+                        self.k_dirty.push(c);
+                    }
+                    m.piece(t_old) == m.piece(t_new)
+                } else {
+                    m.linearisation_exact(t_old, t_new)
+                };
+                if !exact_here {
+                    // Its C (or k) changes: the coefficients are rebuilt there.
                     exact = false;
                     self.dirty.push(c);
                 }
@@ -1654,6 +1773,81 @@ fn fluid_c(model: &SectionModel, p: usize, t_s: f64, wall_c: f64, q_w_per_m: f64
 }
 
 impl Stepper<'_> {
+    /// Heat-flux density `q = −k∇T` (W/m²) at the cell centres of the field `t`
+    /// (°C), across and down. Each face carries the flow of the cell system,
+    /// `g_face·(T_a − T_b)` with the series face conductance `g_face` the solver
+    /// used (so the arrows follow the discrete heat flow exactly), divided by the
+    /// face area (planar: per metre of length; r–z: `2πr·Δz` and the annulus).
+    /// A cell's component is the mean over its two opposite faces; the symmetry
+    /// sides count with zero flux and the bottom with the geothermal flux, while
+    /// faces to a pipe and the ground surface are left out (one-sided value).
+    /// NaN inside pipes.
+    fn heat_flux_w_m2(&self, t: &[f64]) -> (Vec<f64>, Vec<f64>) {
+        let mesh = self.mesh;
+        let (nx, nz) = (mesh.nx, mesh.nz);
+        let k = &self.coefficients;
+        let (xf, xw, zw) = (mesh.x.faces_m(), mesh.x.widths_m(), mesh.z.widths_m());
+        let axisymmetric = mesh.geometry == Geometry::Axisymmetric;
+        // Area of the x face at axis position `xf[i]` in row `iz`, and of the z faces of column `ix`.
+        let x_area = |i: usize, iz: usize| {
+            if axisymmetric {
+                2.0 * PI * xf[i] * zw[iz]
+            } else {
+                zw[iz]
+            }
+        };
+        let z_area = |ix: usize| {
+            if axisymmetric {
+                PI * (xf[ix + 1].powi(2) - xf[ix].powi(2))
+            } else {
+                xw[ix]
+            }
+        };
+        let mean = |faces: [Option<f64>; 2]| {
+            let (sum, count) = faces
+                .iter()
+                .flatten()
+                .fold((0.0, 0.0), |(s, n), q| (s + q, n + 1.0));
+            if count > 0.0 { sum / count } else { 0.0 }
+        };
+        let n = mesh.cells();
+        let (mut qx, mut qz) = (vec![f64::NAN; n], vec![f64::NAN; n]);
+        for iz in 0..nz {
+            for ix in 0..nx {
+                let c = iz * nx + ix;
+                if !mesh.active[c] {
+                    continue;
+                }
+                let x_face = |a: usize, f: usize, i: usize| {
+                    (mesh.active[a] && mesh.active[a + 1])
+                        .then(|| k.gx[f] * (t[a] - t[a + 1]) / x_area(i, iz))
+                };
+                let west = if ix == 0 {
+                    Some(0.0)
+                } else {
+                    x_face(c - 1, iz * (nx - 1) + ix - 1, ix)
+                };
+                let east = if ix + 1 == nx {
+                    Some(0.0)
+                } else {
+                    x_face(c, iz * (nx - 1) + ix, ix + 1)
+                };
+                qx[c] = mean([west, east]);
+                let z_face = |a: usize| {
+                    (mesh.active[a] && mesh.active[a + nx]).then(|| k.gz[a] * (t[a] - t[a + nx]) / z_area(ix))
+                };
+                let north = if iz == 0 { None } else { z_face(c - nx) };
+                let south = if iz + 1 == nz {
+                    Some(-self.bottom_flux_w_m2)
+                } else {
+                    z_face(c)
+                };
+                qz[c] = mean([north, south]);
+            }
+        }
+        (qx, qz)
+    }
+
     fn display_field(&self, walls_c: &[f64]) -> Vec<f64> {
         (0..self.mesh.cells())
             .map(|c| self.display_c(c, walls_c))
@@ -1702,12 +1896,15 @@ impl Stepper<'_> {
     }
 }
 
-fn snapshot(mesh: &Mesh, time_s: f64, t_c: Vec<f64>) -> Snapshot {
+fn snapshot(stepper: &Stepper, time_s: f64, t_c: Vec<f64>) -> Snapshot {
+    let (q_x_w_m2, q_z_w_m2) = stepper.heat_flux_w_m2(&t_c);
     Snapshot {
         time_s,
-        x_m: mesh.x.centres_m().to_vec(),
-        z_m: mesh.z.centres_m().to_vec(),
+        x_m: stepper.mesh.x.centres_m().to_vec(),
+        z_m: stepper.mesh.z.centres_m().to_vec(),
         t_c,
+        q_x_w_m2,
+        q_z_w_m2,
     }
 }
 
@@ -1726,6 +1923,7 @@ pub fn solve_transient(model: &SectionModel, opts: &TransientOptions) -> Result<
     let mesh = Mesh::build(model, &opts.grid)?;
     let t0 = initial_field(&mesh, &opts.initial)?;
     let mut stepper = Stepper::new(&mesh, new_solver(opts.solver, &mesh)?, t0, model.bottom_flux_w_m2);
+    stepper.lag_conductivity = true;
     let drives = Drives::of(model);
     let limits = IterationLimits {
         max_iterations: opts.max_iterations,
@@ -1743,6 +1941,8 @@ pub fn solve_transient(model: &SectionModel, opts: &TransientOptions) -> Result<
         cells: mesh.cells(),
         linear_solves: 0,
         factorisations: 0,
+        linear_iterations: 0,
+        nonlinear_iterations: 0,
     };
     let mut pending: Vec<f64> = opts
         .snapshot_times_s
@@ -1786,7 +1986,7 @@ pub fn solve_transient(model: &SectionModel, opts: &TransientOptions) -> Result<
             while let Some(&t_snap) = pending.first().filter(|&&t| t <= t_s) {
                 let w = ((t_snap - t_start) / dt).clamp(0.0, 1.0);
                 let field = before.iter().zip(&after).map(|(a, b)| a + w * (b - a)).collect();
-                solution.snapshots.push(snapshot(&mesh, t_snap, field));
+                solution.snapshots.push(snapshot(&stepper, t_snap, field));
                 pending.remove(0);
             }
         }
@@ -1795,6 +1995,8 @@ pub fn solve_transient(model: &SectionModel, opts: &TransientOptions) -> Result<
     solution.energy_balance_relative_error = relative(imbalance, throughput);
     solution.linear_solves = stepper.solves;
     solution.factorisations = stepper.solver.factorisations();
+    solution.linear_iterations = stepper.solver.iterations();
+    solution.nonlinear_iterations = stepper.iterations;
     Ok(solution)
 }
 
@@ -1856,7 +2058,7 @@ pub fn solve_steady(model: &SectionModel, grid: &GridOptions, t_s: f64) -> Resul
         .map(|p| fluid_c(model, p, t_s, flows.walls_c[p], heat_rate[p]))
         .collect();
     Ok(SteadySolution {
-        field: snapshot(&mesh, t_s, stepper.display_field(&flows.walls_c)),
+        field: snapshot(&stepper, t_s, stepper.display_field(&flows.walls_c)),
         heat_rate_w_per_m: heat_rate,
         wall_c: flows.walls_c.clone(),
         fluid_c: fluid,

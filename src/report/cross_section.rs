@@ -6,7 +6,9 @@
 use super::Figure;
 use super::heat_loss::isotherm_levels;
 use super::html::esc;
-use super::plot::{FieldPlot, LinePlot, Series, SeriesStyle, render_field_plot, render_line_plot};
+use super::plot::{
+    ArrowLayer, FieldPlot, LinePlot, Series, SeriesStyle, render_field_plot_with_arrows, render_line_plot,
+};
 use crate::results::{CrossSectionResult, StudyResult};
 use std::fmt::Write;
 
@@ -21,13 +23,21 @@ pub fn figures(s: &StudyResult, c: &CrossSectionResult) -> Result<Vec<Figure>, S
         if lo < 0.0 && hi > 0.0 && !levels.contains(&0.0) {
             levels.push(0.0);
         }
+        let arrows = ArrowLayer {
+            arrows: c.flux.get(i).map_or_else(Vec::new, |a| {
+                (0..a.x_m.len())
+                    .map(|j| (a.x_m[j], a.z_m[j], a.qx_w_m2[j], a.qz_w_m2[j]))
+                    .collect()
+            }),
+            unit: "W/m²".into(),
+        };
         out.push(Figure {
             stem: format!("{}-field-{}", s.id, i + 1),
             caption: format!(
-                "Temperature field, {}; isotherms labelled in °C (0 °C marks the frost line).",
+                "Temperature field, {}; isotherms labelled in °C (0 °C marks the frost line); arrows show the heat flux q = −k∇T, their length proportional to its magnitude (scale arrow in the top-left corner).",
                 f.label
             ),
-            rendered: render_field_plot(
+            rendered: render_field_plot_with_arrows(
                 &FieldPlot {
                     title: format!("Temperature, {}", f.label),
                     x_label: "x (m)".into(),
@@ -40,6 +50,7 @@ pub fn figures(s: &StudyResult, c: &CrossSectionResult) -> Result<Vec<Figure>, S
                     isotherms: levels,
                     markers: Vec::new(),
                 },
+                &arrows,
                 760,
                 480,
             )?,

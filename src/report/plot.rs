@@ -1078,12 +1078,51 @@ pub struct FieldPlot {
     pub markers: Vec<(f64, f64, String)>,
 }
 
+/// Vectors drawn as arrows over a field plot (e.g. heat flux). The plot only scales them: each
+/// arrow is centred on its point, its length proportional to the vector's magnitude (the 90th
+/// percentile of the magnitudes spans 0.9 of the closest spacing between arrows; the few longer
+/// ones, e.g. next to a pipe, are capped at 1.5 times that, and the key then says so), and a
+/// key arrow of a round value with `unit` states the scale in the top-left corner.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct ArrowLayer {
+    /// `(x_m, z_m, across, down)`: position and components, `down` positive with depth.
+    pub arrows: Vec<(f64, f64, f64, f64)>,
+    /// Unit of the components, e.g. "W/m²".
+    pub unit: String,
+}
+
+/// Stroke colour of the arrows (a warm white drawn on a black halo, visible on every colour
+/// of the map).
+pub const ARROW_RGB: (u8, u8, u8) = (255, 250, 240);
+
 /// Renders `plot` at `width_px` x `height_px` pixels as SVG and PNG. In the SVG the colour
 /// raster is an embedded PNG (`data:` URI), not a link.
 pub fn render_field_plot(plot: &FieldPlot, width_px: u32, height_px: u32) -> Result<Rendered, String> {
+    render_field_plot_with_arrows(plot, &ArrowLayer::default(), width_px, height_px)
+}
+
+/// [`render_field_plot`] with `arrows` drawn over the field.
+pub fn render_field_plot_with_arrows(
+    plot: &FieldPlot,
+    arrows: &ArrowLayer,
+    width_px: u32,
+    height_px: u32,
+) -> Result<Rendered, String> {
     check_size(width_px, height_px)?;
     ensure_font()?;
-    let prepared = prepare_field_plot(plot)?;
+    let mut prepared = prepare_field_plot(plot)?;
+    if let Some(a) = arrows
+        .arrows
+        .iter()
+        .find(|a| ![a.0, a.1, a.2, a.3].iter().all(|v| v.is_finite()))
+    {
+        return Err(format!(
+            "arrow at ({}, {}) has components ({}, {}); give finite numbers",
+            a.0, a.1, a.2, a.3
+        ));
+    }
+    prepared.arrows = arrows.arrows.clone();
+    prepared.arrow_unit = clean_text(&arrows.unit);
     let mut out = render_both(width_px, height_px, &prepared)?;
     let raster = prepared
         .svg_raster
@@ -1282,6 +1321,9 @@ struct PreparedFieldPlot {
     /// (level, its chained isolines).
     isolines: Vec<(f64, Vec<Polyline>)>,
     markers: Vec<(f64, f64, String)>,
+    /// Arrows `(x, z, across, down)` and the unit of their key.
+    arrows: Vec<(f64, f64, f64, f64)>,
+    arrow_unit: String,
     /// Filled by the SVG pass: the raster to embed.
     svg_raster: std::cell::RefCell<Option<Raster>>,
 }
@@ -1348,6 +1390,8 @@ fn prepare_field_plot(plot: &FieldPlot) -> Result<PreparedFieldPlot, String> {
             .iter()
             .map(|(x, z, l)| (*x, *z, clean_text(l)))
             .collect(),
+        arrows: Vec::new(),
+        arrow_unit: String::new(),
         svg_raster: std::cell::RefCell::new(None),
     })
 }
@@ -1409,6 +1453,133 @@ impl PreparedFieldPlot {
         }
         rgb
     }
+}
+
+/// Largest 1-2-5 value not above `v` (> 0).
+fn nice_below(v: f64) -> f64 {
+    let mag = 10f64.powf(v.log10().floor());
+    [5.0, 2.0, 1.0]
+        .iter()
+        .map(|m| m * mag)
+        .find(|s| *s <= v * (1.0 + 1e-12))
+        .unwrap_or(mag)
+}
+
+/// One arrow from `tail` to `head` (pixels): a black halo under a light shaft, and a filled
+/// head.
+fn draw_arrow<DB: DrawingBackend>(
+    root: &DrawingArea<DB, Shift>,
+    tail: (f64, f64),
+    head: (f64, f64),
+) -> Result<(), String> {
+    let light = RGBColor(ARROW_RGB.0, ARROW_RGB.1, ARROW_RGB.2);
+    let (dx, dy) = (head.0 - tail.0, head.1 - tail.1);
+    let len = dx.hypot(dy);
+    let (ux, uy) = (dx / len, dy / len);
+    let barb = (0.4 * len).clamp(3.0, 7.0);
+    let base = (head.0 - barb * ux, head.1 - barb * uy);
+    let side = 0.45 * barb;
+    let pt = |x: f64, y: f64| (x.round() as i32, y.round() as i32);
+    let shaft = vec![pt(tail.0, tail.1), pt(base.0, base.1)];
+    root.draw(&PathElement::new(shaft.clone(), BLACK.mix(0.8).stroke_width(3)))
+        .map_err(drawing_error)?;
+    root.draw(&PathElement::new(shaft, light.stroke_width(1)))
+        .map_err(drawing_error)?;
+    let tip = vec![
+        pt(head.0, head.1),
+        pt(base.0 - side * uy, base.1 + side * ux),
+        pt(base.0 + side * uy, base.1 - side * ux),
+    ];
+    root.draw(&Polygon::new(tip.clone(), light.filled()))
+        .map_err(drawing_error)?;
+    let mut outline = tip.clone();
+    outline.push(tip[0]);
+    root.draw(&PathElement::new(outline, BLACK.stroke_width(1)))
+        .map_err(drawing_error)
+}
+
+/// An arrow's point in pixels and its components in data units.
+type PixelArrow = ((i32, i32), (f64, f64));
+
+/// Arrows centred on their points (pixels, components in data units with `down` positive
+/// downward), scaled as [`ArrowLayer`] says, and the scale key in the corner `corner` of the
+/// plotting area. Arrows shorter than 2 px are left out.
+fn draw_arrows<DB: DrawingBackend>(
+    root: &DrawingArea<DB, Shift>,
+    arrows: &[PixelArrow],
+    unit: &str,
+    corner: (i32, i32),
+    font: &TextStyle,
+) -> Result<(), String> {
+    let mut sizes: Vec<f64> = arrows
+        .iter()
+        .map(|(_, (u, w))| u.hypot(*w))
+        .filter(|m| *m > 0.0)
+        .collect();
+    if sizes.is_empty() {
+        return Ok(());
+    }
+    sizes.sort_by(f64::total_cmp);
+    let reference = sizes[(0.9 * (sizes.len() - 1) as f64).round() as usize];
+    let cap = 1.5 * reference;
+    let mut spacing = f64::INFINITY;
+    for (i, (a, _)) in arrows.iter().enumerate() {
+        for (b, _) in &arrows[i + 1..] {
+            let d = f64::from(a.0 - b.0).hypot(f64::from(a.1 - b.1));
+            if d > 0.0 {
+                spacing = spacing.min(d);
+            }
+        }
+    }
+    if !spacing.is_finite() {
+        spacing = 40.0;
+    }
+    let px_per_unit = 0.9 * spacing / reference;
+    let mut capped = false;
+    for &((x, y), (u, w)) in arrows {
+        let size = u.hypot(w);
+        let shrink = if size > cap {
+            capped = true;
+            cap / size
+        } else {
+            1.0
+        };
+        let (vx, vy) = (u * px_per_unit * shrink, w * px_per_unit * shrink);
+        if vx.hypot(vy) < 2.0 {
+            continue;
+        }
+        let (cx, cy) = (f64::from(x), f64::from(y));
+        draw_arrow(
+            root,
+            (cx - 0.5 * vx, cy - 0.5 * vy),
+            (cx + 0.5 * vx, cy + 0.5 * vy),
+        )?;
+    }
+    // Key: an arrow of a round value and its label on a white box.
+    let key = nice_below(reference);
+    let key_px = key * px_per_unit;
+    let mut text = format!("{} {unit}", format_tick(key, key));
+    if capped {
+        text.push_str(&format!(" (capped at {})", format_tick(cap, cap)));
+    }
+    let (tw, th) = root.estimate_text_size(&text, font).unwrap_or((0, 0));
+    let (bx, by) = (corner.0 + 6, corner.1 + 6);
+    let box_w = key_px.round() as i32 + tw as i32 + 16;
+    let box_h = th as i32 + 10;
+    root.draw(&Rectangle::new(
+        [(bx, by), (bx + box_w, by + box_h)],
+        WHITE.mix(0.85).filled(),
+    ))
+    .map_err(drawing_error)?;
+    let mid = f64::from(by + box_h / 2);
+    let start = f64::from(bx + 4);
+    draw_arrow(root, (start, mid), (start + key_px, mid))?;
+    root.draw_text(
+        &text,
+        &font.pos(Pos::new(HPos::Left, VPos::Center)),
+        ((start + key_px).round() as i32 + 6, by + box_h / 2),
+    )
+    .map_err(drawing_error)
 }
 
 /// Tick values at a 1-2-5 step giving about `target` ticks over lo..hi.
@@ -1544,6 +1715,24 @@ fn draw_field_plot<DB: DrawingBackend>(
                 .map_err(drawing_error)?;
         }
     }
+    let to_root = |x: f64, z: f64| {
+        let (a, b) = chart.backend_coord(&(x, -z));
+        (a - root_x, b - root_y)
+    };
+    let inside: Vec<_> = p
+        .arrows
+        .iter()
+        .filter(|a| a.0 >= x0 && a.0 <= x1 && a.1 >= z0 && a.1 <= z1)
+        .map(|a| (to_root(a.0, a.1), (a.2, a.3)))
+        .collect();
+    draw_arrows(
+        root,
+        &inside,
+        &p.arrow_unit,
+        (px.start - root_x, py.start - root_y),
+        &tick_font,
+    )?;
+
     let label_style = tick_font.pos(Pos::new(HPos::Center, VPos::Center));
     let min_len_px = 3.0 * fonts.label;
     // Labels keep away from each other and from the markers.

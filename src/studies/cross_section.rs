@@ -16,6 +16,8 @@ use crate::results::*;
 const GROWTH_RATIO: f64 = 1.15;
 /// Most records kept of a series for the report and CSV (longer runs are thinned evenly).
 const MAX_RECORDS: usize = 3000;
+/// Heat-flux arrows across the width of a field plot.
+const ARROW_COLUMNS: usize = 24;
 
 pub fn run(
     id: &str,
@@ -196,6 +198,7 @@ fn steady_result(
         steady: true,
         series: SectionSeries::default(),
         fields: vec![field],
+        flux: vec![flux_arrows(&sol.field, ARROW_COLUMNS)],
     })
 }
 
@@ -237,6 +240,11 @@ fn transient_result(
         .iter()
         .map(|snap| snapshot_field(snap, &format!("day {:.0}", snap.time_s / DAY_S)))
         .collect();
+    let flux = sol
+        .snapshots
+        .iter()
+        .map(|snap| flux_arrows(snap, ARROW_COLUMNS))
+        .collect();
     Ok(CrossSectionResult {
         cells: sol.cells,
         pipes: s
@@ -273,6 +281,7 @@ fn transient_result(
             probe_ids: s.probes.iter().map(|p| p.id.clone()).collect(),
         },
         fields,
+        flux,
     })
 }
 
@@ -284,6 +293,46 @@ fn snapshot_field(snap: &section::Snapshot, label: &str) -> Field {
         z_m: snap.z_m.clone(),
         values_c: snap.t_c.chunks(nx).map(<[f64]>::to_vec).collect(),
     }
+}
+
+/// The snapshot's heat flux on a sparse grid: `columns` points evenly across the width and
+/// rows at the same spacing down the depth (cell centres nearest to each point, so every arrow
+/// is a value the engine computed); points inside a pipe are left out.
+pub fn flux_arrows(snap: &section::Snapshot, columns: usize) -> FluxArrows {
+    let mut arrows = FluxArrows::default();
+    let (nx, x, z) = (snap.x_m.len(), &snap.x_m, &snap.z_m);
+    let (Some(&x0), Some(&x1), Some(&z1)) = (x.first(), x.last(), z.last()) else {
+        return arrows;
+    };
+    // The domain spans the outer faces; the centres are close enough for spacing.
+    let spacing = (x1 - x0) / columns.max(1) as f64;
+    if spacing.is_nan() || spacing <= 0.0 {
+        return arrows;
+    }
+    let nearest = |axis: &[f64], v: f64| {
+        let i = axis.partition_point(|a| *a < v).min(axis.len() - 1);
+        if i > 0 && v - axis[i - 1] < axis[i] - v {
+            i - 1
+        } else {
+            i
+        }
+    };
+    let rows = ((z1 / spacing).floor() as usize).max(1);
+    for row in 0..rows {
+        let depth = (row as f64 + 0.5) * spacing;
+        for col in 0..columns {
+            let across = x0 + (col as f64 + 0.5) * spacing;
+            let c = nearest(z, depth) * nx + nearest(x, across);
+            let (qx, qz) = (snap.q_x_w_m2[c], snap.q_z_w_m2[c]);
+            if qx.is_finite() && qz.is_finite() {
+                arrows.x_m.push(x[c % nx]);
+                arrows.z_m.push(z[c / nx]);
+                arrows.qx_w_m2.push(qx);
+                arrows.qz_w_m2.push(qz);
+            }
+        }
+    }
+    arrows
 }
 
 /// Bilinear sample of a cell-centre field (nearest edge values outside the centres).
