@@ -287,7 +287,7 @@ fn snapshot_field(snap: &section::Snapshot, label: &str) -> Field {
 }
 
 /// Bilinear sample of a cell-centre field (nearest edge values outside the centres).
-fn sample(snap: &section::Snapshot, x: f64, z: f64) -> f64 {
+pub fn sample(snap: &section::Snapshot, x: f64, z: f64) -> f64 {
     let locate = |axis: &[f64], v: f64| -> (usize, f64) {
         let n = axis.len();
         if n < 2 || v <= axis[0] {
