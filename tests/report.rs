@@ -112,7 +112,10 @@ fn summary_gives_each_study_its_figures_and_verdict_and_each_study_echoes_its_in
         .expect("a table of the studies in the summary");
     assert_eq!(table.matches("<tr><td><a href=\"#study-").count(), 2);
     // The frost study's main at 0.9 m under a 2 °C-mean climate: its verdict is stated.
-    assert!(table.contains("frost depth") && table.contains("heat loss"), "{table}");
+    assert!(
+        table.contains("frost depth") && table.contains("heat loss"),
+        "{table}"
+    );
     assert!(table.contains("passes") || table.contains("FAILS"), "{table}");
     // Each study echoes its own lines of the site file, escaped.
     assert_eq!(html.matches("Inputs as written (site file, lines").count(), 2);

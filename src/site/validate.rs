@@ -712,12 +712,20 @@ pub fn layer_conductivity(
 ) -> Option<(f64, Option<crate::model::InsulationLaw>)> {
     use crate::site::doc::LayerConductivityDoc as D;
     match doc {
-        D::Value(q) => v.positive_q(q, path, "a wall-layer conductivity").map(|k| (k, None)),
+        D::Value(q) => v
+            .positive_q(q, path, "a wall-layer conductivity")
+            .map(|k| (k, None)),
         D::Insulation(d) => {
             let fresh = v.positive_q(&d.lambda_50, &path.key("lambda_50"), "the λ50 of the insulation");
             // Polyurethane foams lie near 0.02–0.03 W/(m K) at 50 °C (EN 253 asks at most 0.029
             // fresh, from memory); other insulations up to about 0.1 (common practice, no source).
-            v.plausible(fresh, (0.01, 0.1), &path.key("lambda_50"), "an insulation λ50", "W/(m K)");
+            v.plausible(
+                fresh,
+                (0.01, 0.1),
+                &path.key("lambda_50"),
+                "an insulation λ50",
+                "W/(m K)",
+            );
             let slope = v.within(
                 Some(d.slope.unwrap_or(0.0)),
                 (-1e-3, 1e-3),

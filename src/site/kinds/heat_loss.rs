@@ -304,10 +304,24 @@ fn twin(doc: &TwinDoc, path: &KeyPath, v: &mut Validator) -> Option<(Vec<Pipe>, 
         Some(q) => v.q(q, &path.key("x")),
         None => Some(0.0),
     };
-    let depth = v.positive_q(&doc.depth, &path.key("depth"), "the depth of the twin pipe's centre");
+    let depth = v.positive_q(
+        &doc.depth,
+        &path.key("depth"),
+        "the depth of the twin pipe's centre",
+    );
     v.plausible(depth, (0.2, 10.0), &path.key("depth"), "a pipe depth", "m");
-    let diameter = v.positive_q(&doc.outer_diameter, &path.key("outer_diameter"), "the casing diameter");
-    v.plausible(diameter, (0.05, 2.0), &path.key("outer_diameter"), "a casing diameter", "m");
+    let diameter = v.positive_q(
+        &doc.outer_diameter,
+        &path.key("outer_diameter"),
+        "the casing diameter",
+    );
+    v.plausible(
+        diameter,
+        (0.05, 2.0),
+        &path.key("outer_diameter"),
+        "a casing diameter",
+        "m",
+    );
     let casing_t = v.positive_q(
         &doc.casing.thickness,
         &path.key("casing").key("thickness"),
@@ -323,7 +337,11 @@ fn twin(doc: &TwinDoc, path: &KeyPath, v: &mut Validator) -> Option<(Vec<Pipe>, 
         &path.key("insulation_conductivity"),
         v,
     );
-    let spacing = v.positive_q(&doc.carrier_spacing, &path.key("carrier_spacing"), "the carrier spacing");
+    let spacing = v.positive_q(
+        &doc.carrier_spacing,
+        &path.key("carrier_spacing"),
+        "the carrier spacing",
+    );
     let cp = path.key("carriers");
     let carrier_d = v.positive_q(
         &doc.carriers.outer_diameter,
@@ -347,11 +365,8 @@ fn twin(doc: &TwinDoc, path: &KeyPath, v: &mut Validator) -> Option<(Vec<Pipe>, 
             })
         })
         .collect();
-    let supply = validate::fluid_temperature(
-        &doc.supply.temperature,
-        &path.key("supply").key("temperature"),
-        v,
-    );
+    let supply =
+        validate::fluid_temperature(&doc.supply.temperature, &path.key("supply").key("temperature"), v);
     let ret = validate::fluid_temperature(
         &doc.return_.temperature,
         &path.key("return").key("temperature"),
@@ -359,7 +374,14 @@ fn twin(doc: &TwinDoc, path: &KeyPath, v: &mut Validator) -> Option<(Vec<Pipe>, 
     );
     let layers: Vec<WallLayer> = layers.into_iter().collect::<Option<_>>()?;
     let (x, z, d, t_c, k_c, (k_i, law), s, d_p) = (
-        x?, depth?, diameter?, casing_t?, casing_k?, insulation?, spacing?, carrier_d?,
+        x?,
+        depth?,
+        diameter?,
+        casing_t?,
+        casing_k?,
+        insulation?,
+        spacing?,
+        carrier_d?,
     );
     let mut ok = true;
     let mut fail = |v: &mut Validator, p: KeyPath, msg: String| {
@@ -432,7 +454,10 @@ fn twin(doc: &TwinDoc, path: &KeyPath, v: &mut Validator) -> Option<(Vec<Pipe>, 
         drive,
     };
     Some((
-        vec![carrier("supply", x - s / 2.0, supply?), carrier("return", x + s / 2.0, ret?)],
+        vec![
+            carrier("supply", x - s / 2.0, supply?),
+            carrier("return", x + s / 2.0, ret?),
+        ],
         TwinCasing {
             id: doc.id.clone(),
             x_m: x,

@@ -255,7 +255,11 @@ fn pipe_losses(pipes: &[Pipe], ground_c: &[[f64; 12]], soil: &Soil) -> Result<Lo
     let drives: Vec<[Drive; 12]> = pipes.iter().map(drives).collect();
     let mut laws = Vec::with_capacity(pipes.len());
     for p in pipes {
-        let mut with_law = p.layers.iter().enumerate().filter_map(|(i, l)| l.insulation_law.map(|w| (i, w)));
+        let mut with_law = p
+            .layers
+            .iter()
+            .enumerate()
+            .filter_map(|(i, l)| l.insulation_law.map(|w| (i, w)));
         let first = with_law.next();
         if with_law.next().is_some() {
             return Err(format!(
@@ -368,7 +372,12 @@ fn twin_month(
     Err("the temperature-dependent insulation conductivity of the twin pipe did not settle; check the slope of its law".into())
 }
 
-fn twin_losses(t: &TwinCasing, carriers: &[Pipe], ground_c: &[f64; 12], soil: &Soil) -> Result<Losses, String> {
+fn twin_losses(
+    t: &TwinCasing,
+    carriers: &[Pipe],
+    ground_c: &[f64; 12],
+    soil: &Soil,
+) -> Result<Losses, String> {
     let law = t.insulation_law.as_ref().map(linear_law).transpose()?;
     let (supply, ret) = (fluid_monthly(&carriers[0]), fluid_monthly(&carriers[1]));
     let mut monthly = vec![[0.0; 12]; 2];
@@ -377,7 +386,13 @@ fn twin_losses(t: &TwinCasing, carriers: &[Pipe], ground_c: &[f64; 12], soil: &S
         mean_c: [f64::NAN; 12],
     };
     for m in 0..12 {
-        let (q, _, state) = twin_month(t, &carriers[0], law.as_ref(), (supply[m], ret[m], ground_c[m]), soil)?;
+        let (q, _, state) = twin_month(
+            t,
+            &carriers[0],
+            law.as_ref(),
+            (supply[m], ret[m], ground_c[m]),
+            soil,
+        )?;
         monthly[0][m] = q[0];
         monthly[1][m] = q[1];
         if let Some((lambda, mean_c)) = state {
@@ -386,7 +401,8 @@ fn twin_losses(t: &TwinCasing, carriers: &[Pipe], ground_c: &[f64; 12], soil: &S
         }
     }
     let lambda = ins.mean_lambda();
-    let resistances = twin_pipe(t, &carriers[0], lambda)?.resistances(soil, GroundForm::Exact, TwinMethod::FirstOrder)?;
+    let resistances =
+        twin_pipe(t, &carriers[0], lambda)?.resistances(soil, GroundForm::Exact, TwinMethod::FirstOrder)?;
     let insulation = law.is_some().then_some(ins);
     Losses::from_monthly(
         monthly,
@@ -413,7 +429,11 @@ fn sources(study: &HeatLoss, losses: &Losses) -> (Vec<Position>, Vec<f64>, Vec<[
             )
         }
         None => (
-            study.pipes.iter().map(|p| Position::new(p.x_m, p.depth_m)).collect(),
+            study
+                .pipes
+                .iter()
+                .map(|p| Position::new(p.x_m, p.depth_m))
+                .collect(),
             study.pipes.iter().map(Pipe::outer_radius_m).collect(),
             losses.monthly.clone(),
         ),
@@ -694,7 +714,6 @@ const MONTHS: [&str; 12] = [
     "November",
     "December",
 ];
-
 
 /// The engine's monthly figures.
 struct NumericalLosses {

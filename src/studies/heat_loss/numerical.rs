@@ -77,7 +77,7 @@ impl TwinBody {
         (0..2 * ROWS_PER_RADIUS)
             .map(|j| {
                 let y0 = -r + j as f64 * h;
-                let half = 0.5 * (area_to(y0 + h) - area_to(y0)) / h / 2.0;
+                let half = 0.5 * (area_to(y0 + h) - area_to(y0)) / h;
                 Ok(Inclusion {
                     x_min_m: self.x_m - half,
                     x_max_m: self.x_m + half,
@@ -129,7 +129,10 @@ fn grid(pipes: &[Pipe], twin: Option<TwinBody>) -> GridOptions {
         g.min_cell_m = t.radius_m / ROWS_PER_RADIUS as f64;
     }
     // Pipes thinner than a fifth of a cell would become well-index nodes; keep them cut out.
-    let thinnest = pipes.iter().map(Pipe::outer_radius_m).fold(f64::INFINITY, f64::min);
+    let thinnest = pipes
+        .iter()
+        .map(Pipe::outer_radius_m)
+        .fold(f64::INFINITY, f64::min);
     g.min_cell_m = g.min_cell_m.min(4.0 * thinnest);
     g
 }
