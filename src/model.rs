@@ -233,7 +233,22 @@ pub struct Pipe {
 pub struct WallLayer {
     pub name: String,
     pub thickness_m: f64,
+    /// With an [`InsulationLaw`], its design value at 50 °C (the aged λ50).
     pub conductivity_w_m_k: f64,
+    /// Insulation conductivity by EN 253 practice; the heat-loss study evaluates it at the
+    /// layer's mean temperature, other kinds use `conductivity_w_m_k`.
+    pub insulation_law: Option<InsulationLaw>,
+}
+
+/// Insulation conductivity by EN 253 practice: `λ(T) = λ50·(1 + ageing) + slope·(T − 50 °C)`.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct InsulationLaw {
+    /// Fresh λ50 (at a mean temperature of 50 °C), W/(m K).
+    pub lambda_50_w_m_k: f64,
+    /// dλ/dT, W/(m K²).
+    pub slope_w_m_k2: f64,
+    /// Relative allowance for ageing (0.15 = +15 %).
+    pub ageing: f64,
 }
 
 /// What sets a pipe's heat exchange with the ground.
@@ -271,6 +286,32 @@ pub struct HeatLoss {
     pub surface_resistance_m2_k_w: f64,
     pub sizing: Option<Sizing>,
     pub neighbours: Vec<Neighbour>,
+    /// A twin pipe; then `pipes` holds its two carriers (supply first), each with its own
+    /// wall layers (the carrier wall) and fluid.
+    pub twin: Option<TwinCasing>,
+}
+
+/// The casing and insulation around the two carriers of a twin pipe (carriers side by side at
+/// the casing's depth, supply on the left).
+#[derive(Clone, Debug, PartialEq)]
+pub struct TwinCasing {
+    pub id: String,
+    pub x_m: f64,
+    pub depth_m: f64,
+    pub outer_diameter_m: f64,
+    pub casing_thickness_m: f64,
+    pub casing_conductivity_w_m_k: f64,
+    /// Design value (aged λ50 with a law), W/(m K).
+    pub insulation_conductivity_w_m_k: f64,
+    pub insulation_law: Option<InsulationLaw>,
+    /// Centre-to-centre distance of the carriers, m.
+    pub carrier_spacing_m: f64,
+}
+
+impl TwinCasing {
+    pub fn outer_radius_m(&self) -> f64 {
+        self.outer_diameter_m / 2.0
+    }
 }
 
 /// Candidate thicknesses of one named wall layer.

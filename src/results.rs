@@ -105,7 +105,10 @@ pub struct HeatLossResult {
     pub sizing: Option<SizingResult>,
     pub neighbours: Vec<NeighbourResult>,
     #[serde(skip_serializing_if = "Option::is_none")]
-    pub cross_check: Option<CrossCheck>,
+    pub cross_check: Option<Box<CrossCheck>>,
+    /// The twin pipe's figures, when the study has one (its carriers are `pipes`).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub twin: Option<Box<TwinResult>>,
     /// The section's temperature in the month of the largest loss, for the report.
     #[serde(skip)]
     pub field: Option<Field>,
@@ -121,6 +124,41 @@ pub struct PipeLoss {
     pub u_w_per_m_k: f64,
     pub monthly_heat_loss_w_per_m: Vec<f64>,
     pub monthly_fluid_temperature_c: Vec<f64>,
+    /// With an EN 253 conductivity law on a wall layer: its conductivity at the layer's mean
+    /// temperature, averaged over the months, W/(m K).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub insulation_conductivity_w_m_k: Option<f64>,
+    /// That layer's mean temperature (average of its two faces), averaged over the months, °C.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub insulation_mean_temperature_c: Option<f64>,
+}
+
+/// A twin pipe (Wallentén's symmetric/antisymmetric split; EN 15698-1).
+#[derive(Clone, Debug, Serialize)]
+pub struct TwinResult {
+    pub id: String,
+    pub casing_outer_diameter_m: f64,
+    pub carrier_spacing_m: f64,
+    /// Insulation conductivity used (the annual mean with an EN 253 law), W/(m K).
+    pub insulation_conductivity_w_m_k: f64,
+    /// Mean insulation temperature (carrier surfaces and casing inner face), annual mean, °C,
+    /// with an EN 253 law.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub insulation_mean_temperature_c: Option<f64>,
+    /// Both carriers together to the undisturbed ground: insulation + casing + ground, m K/W.
+    pub symmetric_resistance_m_k_per_w: f64,
+    /// Between the carriers, m K/W.
+    pub antisymmetric_resistance_m_k_per_w: f64,
+    /// Wallentén's dimensionless coefficients.
+    pub h_s: f64,
+    pub h_a: f64,
+    /// Symmetric part (both carriers together; the twin's total), annual mean, W/m.
+    pub symmetric_heat_loss_w_per_m: f64,
+    /// Antisymmetric part: heat flowing from supply to return, `(q_s − q_r)/2`, annual mean, W/m.
+    pub antisymmetric_heat_flow_w_per_m: f64,
+    /// The twin's total, annual mean, W/m, and per year, kWh/m.
+    pub total_heat_loss_w_per_m: f64,
+    pub annual_heat_loss_kwh_per_m: f64,
 }
 
 #[derive(Clone, Debug, Serialize)]
@@ -149,6 +187,12 @@ pub struct Candidate {
     /// Present value of the heat lost plus the installed cost, currency per metre of trench.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub life_cycle_cost_per_m: Option<f64>,
+    /// With `method: both`: the engine's trench total, annual mean, W/m.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub numerical_heat_loss_w_per_m: Option<f64>,
+    /// `(analytic − numerical)/numerical` of the trench total.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub numerical_relative_difference: Option<f64>,
 }
 
 #[derive(Clone, Debug, Serialize)]
@@ -163,6 +207,9 @@ pub struct NeighbourResult {
     #[serde(skip_serializing_if = "Option::is_none")]
     pub limit_c: Option<f64>,
     pub exceeds_limit: bool,
+    /// With `method: both`: the highest monthly value from the engine's steady fields, °C.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub numerical_max_temperature_c: Option<f64>,
 }
 
 /// The other method's figures beside the study's own.
@@ -170,7 +217,21 @@ pub struct NeighbourResult {
 pub struct CrossCheck {
     pub method: String,
     pub pipes: Vec<CrossCheckPipe>,
+    /// Largest `|analytic − numerical|/|numerical|` over the pipes; for a twin pipe over its
+    /// total and its antisymmetric part (a carrier's own loss can be near zero).
     pub max_relative_difference: f64,
+    /// The engine's trench total, annual mean, W/m, and its relative difference.
+    pub total_heat_loss_w_per_m: f64,
+    pub total_relative_difference: f64,
+    /// Twin pipe: the engine's `(q_s − q_r)/2`, annual mean, W/m, and its relative difference.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub antisymmetric_heat_flow_w_per_m: Option<f64>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub antisymmetric_relative_difference: Option<f64>,
+    /// How the engine's model departs from the analytic one, in words.
+    pub model: String,
+    /// Cells of the engine's grid.
+    pub cells: usize,
 }
 
 #[derive(Clone, Debug, Serialize)]

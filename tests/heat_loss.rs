@@ -225,3 +225,336 @@ fn a_pair_agrees_with_the_engine_within_three_percent() {
     }
     assert!(!r.warnings.iter().any(|w| w.code == "heat_loss.methods_differ"));
 }
+
+// ---- twin pipes -------------------------------------------------------------------------------
+
+/// A twin pipe (invented, of the usual proportions of a pre-insulated 2 × DN80 twin): carriers
+/// 88.9 × 3.2 mm steel, 120 mm apart, in a 280 mm casing 4 mm thick.
+const TWIN: &str = "  - id: twin
+    kind: heat-loss
+    surface_resistance: 0.0685
+    twin:
+      id: t
+      depth: 0.8 m
+      outer_diameter: 280 mm
+      casing: {thickness: 4 mm, conductivity: 0.4}
+      insulation_conductivity: 0.026
+      carrier_spacing: 120 mm
+      carriers:
+        outer_diameter: 88.9 mm
+        layers: [{name: steel, thickness: 3.2 mm, conductivity: 50}]
+      supply: {temperature: 80}
+      return: {temperature: 45}
+";
+
+/// Wallentén's first-order twin-pipe formulas (Wallentén 1991; the form of EN 15698-1, terms as
+/// written in physics::buried_pipe::twin, recalled `from memory`), re-implemented here:
+/// `R_sym = R_ins,sym + R_casing + R_ground`, `q_s,r = (T_m − T_g)/(2R_sym) ± (T_s − T_r)/R_a`.
+fn twin_by_hand(lambda_i: f64, casing_k: f64, soil_k: f64) -> (f64, f64) {
+    let (r_o, t_c, r_p, d): (f64, f64, f64, f64) = (0.14, 0.004, 0.04445, 0.06);
+    let r_c = r_o - t_c;
+    let beta = 2.0 * PI * lambda_i * (r_p / (r_p - 0.0032)).ln() / (2.0 * PI * 50.0);
+    let sigma = (lambda_i - soil_k) / (lambda_i + soil_k);
+    let p = r_p * r_p / (4.0 * d * d);
+    let (rc2, d2) = (r_c * r_c, d * d);
+    let (rc4, d4) = (rc2 * rc2, d2 * d2);
+    let wall = (1.0 + beta) / (1.0 - beta);
+    let sym = beta + (rc2 / (2.0 * d * r_p)).ln() + sigma * (rc4 / (rc4 - d4)).ln()
+        - p * (1.0 - sigma * 4.0 * d4 / (rc4 - d4)).powi(2)
+            / (wall + p * (1.0 + sigma * 16.0 * d4 * rc4 / (rc4 - d4).powi(2)));
+    let anti = beta + (2.0 * d / r_p).ln() + sigma * ((rc2 + d2) / (rc2 - d2)).ln()
+        - p * (1.0 + sigma * 4.0 * d2 * rc2 / (rc4 - d4)).powi(2)
+            / (wall - p * (1.0 - sigma * 8.0 * d2 * rc2 * (rc4 + d4) / (rc4 - d4).powi(2)));
+    let r_sym = sym / (4.0 * PI * lambda_i)
+        + (r_o / r_c).ln() / (2.0 * PI * casing_k)
+        + ((0.8 + soil_k * 0.0685) / r_o).acosh() / (2.0 * PI * soil_k);
+    let r_a = anti / (PI * lambda_i);
+    let s = (0.5 * (80.0 + 45.0) - T_G) / (2.0 * r_sym);
+    let a = (80.0 - 45.0) / r_a;
+    (s + a, s - a)
+}
+
+#[test]
+fn a_twin_pipe_matches_wallentens_formulas() {
+    let r = run(&site_with(TWIN));
+    let h = heat_loss(&r);
+    let (qs, qr) = twin_by_hand(0.026, 0.4, K);
+    let ids: Vec<&str> = h.pipes.iter().map(|p| p.id.as_str()).collect();
+    assert_eq!(ids, ["supply", "return"]);
+    assert!(
+        (h.pipes[0].heat_loss_w_per_m - qs).abs() < 1e-9 * qs,
+        "{} vs {qs}",
+        h.pipes[0].heat_loss_w_per_m
+    );
+    assert!(
+        (h.pipes[1].heat_loss_w_per_m - qr).abs() < 1e-9 * qs,
+        "{} vs {qr}",
+        h.pipes[1].heat_loss_w_per_m
+    );
+    let t = h.twin.as_ref().expect("a twin result");
+    assert!((t.total_heat_loss_w_per_m - (qs + qr)).abs() < 1e-9 * qs);
+    assert!((t.symmetric_heat_loss_w_per_m - (qs + qr)).abs() < 1e-9 * qs);
+    assert!((t.antisymmetric_heat_flow_w_per_m - 0.5 * (qs - qr)).abs() < 1e-9 * qs);
+    assert!((h.total_heat_loss_w_per_m - (qs + qr)).abs() < 1e-9 * qs);
+    // Wallentén's dimensionless coefficients: h_s = 1/(4πλ_i R_sym), and q_s + q_r = 4πλ_i·h_s·(T_m − T_g).
+    let lhs = 4.0 * PI * 0.026 * t.h_s * (62.5 - T_G);
+    assert!((lhs - (qs + qr)).abs() < 1e-9 * qs, "{lhs} vs {}", qs + qr);
+    // Constant temperatures: the annual energy is the mean rate over 8760 h.
+    assert!((t.annual_heat_loss_kwh_per_m - (qs + qr) * 8.76).abs() < 1e-6 * qs);
+}
+
+/// The engine's section against the multipole method at order 10 (Bennet, Claesson & Hellström
+/// 1987; < 0.1 % from a boundary-collocation reference, tests/buried_pipe.rs) for the model the
+/// engine solves: the casing wall taken as soil. What remains is the engine's own error (the
+/// staircase of the insulation circle and the grid), which a second-order finite-volume scheme
+/// with about 12 cells per insulation radius and 10 per carrier diameter keeps to about 1 % on
+/// the total; the antisymmetric part crosses the 31 mm gap between the carriers on about 3
+/// cells. Both get the 3 % of the pair check (issue contract); measured: 0.7 % and 0.4 %.
+#[test]
+fn a_twin_pipe_agrees_with_the_engine() {
+    use burrow::physics::buried_pipe::twin::{TwinMethod, TwinPipe};
+    use burrow::physics::buried_pipe::{GroundForm, Position, Soil};
+    let text = site_with(&TWIN.replace("kind: heat-loss", "kind: heat-loss\n    method: both"));
+    let r = run(&text);
+    let h = heat_loss(&r);
+    let c = h.cross_check.as_ref().expect("method both gives a cross-check");
+    let twin = TwinPipe {
+        centre: Position::new(0.0, 0.8),
+        casing_outer_radius_m: 0.14,
+        casing_thickness_m: 0.004,
+        casing_conductivity_w_m_k: K,
+        insulation_conductivity_w_m_k: 0.026,
+        carrier_outer_radius_m: 0.04445,
+        carrier_spacing_m: 0.12,
+        carrier_wall_resistance_m_k_per_w: (0.04445_f64 / 0.04125).ln() / (2.0 * PI * 50.0),
+    };
+    let soil = Soil::new(K, 0.0685).unwrap();
+    let res = twin
+        .resistances(&soil, GroundForm::Exact, TwinMethod::Multipole { order: 10 })
+        .unwrap();
+    let [qs, qr] = res.heat_rates_w_per_m(80.0, 45.0, T_G).unwrap();
+    let (ns, nr) = (c.pipes[0].heat_loss_w_per_m, c.pipes[1].heat_loss_w_per_m);
+    let total = ((ns + nr) - (qs + qr)) / (qs + qr);
+    let anti = ((ns - nr) - (qs - qr)) / (qs - qr);
+    eprintln!(
+        "engine {ns:.3} {nr:.3}, multipole {qs:.3} {qr:.3}: total {total:.4}, antisymmetric {anti:.4}; study's difference {:.4} {:?}, cells {}",
+        c.total_relative_difference, c.antisymmetric_relative_difference, c.cells
+    );
+    assert!(total.abs() < 0.03, "total {total}");
+    assert!(anti.abs() < 0.03, "antisymmetric {anti}");
+    assert!(c.antisymmetric_relative_difference.is_some());
+}
+
+fn errors(text: &str) -> Vec<(String, String)> {
+    site::load_text(text, "t.yaml", Path::new("."))
+        .unwrap_err()
+        .iter()
+        .map(|d| (d.path.to_string(), d.message.clone()))
+        .collect()
+}
+
+#[test]
+fn twin_pipes_with_carriers_overlapping_or_outside_the_casing_are_refused() {
+    let e = errors(&site_with(
+        &TWIN.replace("carrier_spacing: 120 mm", "carrier_spacing: 80 mm"),
+    ));
+    assert!(
+        e.iter()
+            .any(|(p, m)| p == "studies[0].twin.carrier_spacing" && m.contains("overlap")),
+        "{e:?}"
+    );
+    let e = errors(&site_with(
+        &TWIN.replace("carrier_spacing: 120 mm", "carrier_spacing: 200 mm"),
+    ));
+    assert!(
+        e.iter()
+            .any(|(p, m)| p == "studies[0].twin.carrier_spacing" && m.contains("inner radius")),
+        "{e:?}"
+    );
+    let e = errors(&site_with(&TWIN.replace("depth: 0.8 m", "depth: 0.1 m")));
+    assert!(e.iter().any(|(p, _)| p == "studies[0].twin.depth"), "{e:?}");
+    let with_pipe = TWIN.replace(
+        "    twin:\n",
+        "    pipes: [{id: p, depth: 2, outer_diameter: 0.2, fluid: {temperature: 60}}]\n    twin:\n",
+    );
+    let e = errors(&site_with(&with_pipe));
+    assert!(
+        e.iter()
+            .any(|(p, m)| p == "studies[0].twin" && m.contains("not both")),
+        "{e:?}"
+    );
+    let sized = format!("{TWIN}    sizing: {{layer: foam, thicknesses: [40 mm]}}\n");
+    let e = errors(&site_with(&sized));
+    assert!(e.iter().any(|(p, _)| p == "studies[0].sizing.layer"), "{e:?}");
+}
+
+/// Insulation by EN 253 practice, against a hand calculation: the single pipe of [`PIPE`] with
+/// λ(T) = λ50·(1 + ageing) + slope·(T − 50 °C), T the mean of the insulation's two faces,
+/// iterated by hand with the series resistances of the closed-form check above.
+#[test]
+fn insulation_conductivity_follows_its_mean_temperature_and_ageing() {
+    let (l50, slope, ageing) = (0.024, 0.00012, 0.15);
+    let text = site_with(&PIPE.replace(
+        "conductivity: 0.026}",
+        &format!(
+            "conductivity: {{lambda_50: {l50}, slope: {slope}, ageing: {} %}}}}",
+            ageing * 100.0
+        ),
+    ));
+    let r = run(&text);
+    let h = heat_loss(&r);
+    let r_o: f64 = 0.1;
+    let radii = [r_o - 0.057, r_o - 0.053, r_o - 0.003, r_o];
+    let shell = |i: usize, k: f64| (radii[i + 1] / radii[i]).ln() / (2.0 * PI * k);
+    let ground = ((0.9 + K * 0.0685) / r_o).acosh() / (2.0 * PI * K);
+    let mut lambda = l50 * (1.0 + ageing);
+    let (mut q, mut mean) = (0.0, 0.0);
+    for _ in 0..50 {
+        q = (80.0 - T_G) / (shell(0, 50.0) + shell(1, lambda) + shell(2, 0.4) + ground);
+        let inner = 80.0 - q * shell(0, 50.0);
+        let outer = inner - q * shell(1, lambda);
+        mean = 0.5 * (inner + outer);
+        lambda = l50 * (1.0 + ageing) + slope * (mean - 50.0);
+    }
+    let p = &h.pipes[0];
+    assert!(
+        ((p.heat_loss_w_per_m - q) / q).abs() < 1e-6,
+        "{} vs {q}",
+        p.heat_loss_w_per_m
+    );
+    assert!((p.insulation_conductivity_w_m_k.unwrap() - lambda).abs() < 1e-8);
+    assert!((p.insulation_mean_temperature_c.unwrap() - mean).abs() < 1e-4);
+    // The mean insulation temperature (~45 °C) lies below 50 °C, so λ is below the aged λ50.
+    assert!(
+        lambda < l50 * (1.0 + ageing) && mean > 40.0 && mean < 50.0,
+        "{lambda} at {mean}"
+    );
+}
+
+/// With a twin pipe the law is evaluated at the mean of the carriers' surfaces and the casing's
+/// inner face; the reported λ is the law at the reported mean temperature, which lies between
+/// the ground and the supply temperature.
+#[test]
+fn a_twin_pipes_insulation_law_is_consistent_with_its_mean_temperature() {
+    let text = site_with(&TWIN.replace(
+        "insulation_conductivity: 0.026",
+        "insulation_conductivity: {lambda_50: 0.024, slope: 0.0001, ageing: 0.2}",
+    ));
+    let r = run(&text);
+    let t = heat_loss(&r).twin.as_ref().unwrap().clone();
+    let mean = t.insulation_mean_temperature_c.unwrap();
+    let expected = 0.024 * 1.2 + 0.0001 * (mean - 50.0);
+    assert!((t.insulation_conductivity_w_m_k - expected).abs() < 1e-8);
+    // Carriers at 80 and 45 °C (mean 62.5) less a little steel drop; casing near the ground.
+    assert!(mean > T_G && mean < 62.5, "{mean}");
+    let (qs, qr) = twin_by_hand(expected, 0.4, K);
+    assert!(((t.total_heat_loss_w_per_m - (qs + qr)) / (qs + qr)).abs() < 1e-6);
+}
+
+/// The analytic method sees one soil; layers within twice the pipe depth that differ by more
+/// than 20 % raise a caution (issue contract), layers that differ less do not.
+#[test]
+fn layered_ground_raises_a_caution_when_the_layers_differ() {
+    let layered = |top_k: f64| {
+        format!(
+            "site: {{name: layered}}
+climate: {{model: constant, temperature: {T_G}}}
+ground:
+  layers:
+    - {{name: topsoil, thickness: 0.5, conductivity: {top_k}, heat_capacity: 2.0e6}}
+    - {{name: sand, conductivity: {K}, heat_capacity: 2.0e6}}
+studies:
+{PIPE}"
+        )
+    };
+    let r = run(&layered(0.8));
+    assert!(
+        r.warnings.iter().any(|w| w.code == "heat_loss.layered_ground"),
+        "{:?}",
+        r.warnings
+    );
+    // The analytic method uses the layer at the pipe centre.
+    assert_eq!(heat_loss(&r).soil_conductivity_w_m_k, K);
+    let r = run(&layered(1.5));
+    assert!(!r.warnings.iter().any(|w| w.code == "heat_loss.layered_ground"));
+}
+
+/// In homogeneous ground under an isothermal surface (R0 = 0) the engine's field near a single
+/// pipe matches the line source with its image (Kelvin; Carslaw & Jaeger §10.10), which is exact
+/// for an isothermal cylinder when the source sits at the bipolar focus, sqrt(H² − r²) deep,
+/// instead of the centre: for r/H = 0.11 that shifts the rise at 0.5–1 m by up to ~1 %; the
+/// engine's grid adds ~0.5 %, so 1.5 %. (Measured further out, at 3 m, where the cells reach
+/// 0.4 m and the rise is 0.3 K, the engine reads 2.5 % higher; beside a second pipe the line
+/// sources also ignore that pipe's body, ~3 % at 3.6 radii from it.)
+#[test]
+fn the_engines_neighbour_temperatures_match_the_line_source_near_a_pipe() {
+    let text = site_with(
+        "  - id: s
+    kind: heat-loss
+    method: both
+    surface_resistance: 0
+    pipes:
+      - {id: p, x: 0, depth: 1.0, outer_diameter: 0.225, layers: [{name: insulation, thickness: 60 mm, conductivity: 0.027}], fluid: {temperature: 90}}
+    neighbours:
+      - {id: side, x: 0.5, depth: 1.0}
+      - {id: farther, x: 1.0, depth: 1.0}
+      - {id: below, x: 0.0, depth: 2.0}
+      - {id: above, x: 0.0, depth: 0.4}
+",
+    );
+    let r = run(&text);
+    let d: Vec<f64> = heat_loss(&r)
+        .neighbours
+        .iter()
+        .map(|n| {
+            let num = n
+                .numerical_max_temperature_c
+                .expect("method both gives the engine's value");
+            (num - n.max_temperature_c) / (n.max_temperature_c - T_G)
+        })
+        .collect();
+    assert!(d.iter().all(|d| d.abs() < 0.015), "{d:?}");
+}
+
+/// With `method: both` every sizing candidate carries the engine's trench total, within the 3 %
+/// of the pair check, and it falls as the insulation grows.
+#[test]
+fn sizing_candidates_carry_the_engines_loss() {
+    let text = sizing_site(25.0).replace("kind: heat-loss", "kind: heat-loss\n    method: both");
+    let r = run(&text);
+    let s = heat_loss(&r).sizing.as_ref().unwrap();
+    let mut by_t: Vec<_> = s.candidates.iter().collect();
+    by_t.sort_by(|a, b| a.insulation_thickness_m.total_cmp(&b.insulation_thickness_m));
+    for c in &by_t {
+        let n = c.numerical_heat_loss_w_per_m.unwrap();
+        eprintln!(
+            "{:.3} m: analytic {:.3}, engine {n:.3} W/m",
+            c.insulation_thickness_m, c.heat_loss_w_per_m
+        );
+        assert!(c.numerical_relative_difference.unwrap().abs() < 0.03);
+    }
+    assert!(
+        by_t.windows(2)
+            .all(|w| w[1].numerical_heat_loss_w_per_m < w[0].numerical_heat_loss_w_per_m)
+    );
+}
+
+/// A twin pipe's sizing grows the casing (least insulation cover over a carrier); the loss
+/// falls with thickness, each candidate as Wallentén's formulas give it.
+#[test]
+fn a_twin_pipe_is_sized_by_its_insulation_cover() {
+    let text = site_with(&format!(
+        "{TWIN}    sizing: {{layer: insulation, thicknesses: [31.55 mm, 50 mm, 70 mm], heat_loss_limit: 25 W/m}}\n"
+    ));
+    let r = run(&text);
+    let h = heat_loss(&r);
+    let s = h.sizing.as_ref().unwrap();
+    // 31.55 mm of cover is the study's own casing (0.06 + 0.04445 + 0.03155 + 0.004 = 0.14 m).
+    assert!((s.candidates[0].outer_diameters_m[0] - 0.28).abs() < 1e-9);
+    assert!((s.candidates[0].heat_loss_w_per_m - h.total_heat_loss_w_per_m).abs() < 1e-9);
+    assert!(
+        s.candidates
+            .windows(2)
+            .all(|w| w[1].heat_loss_w_per_m < w[0].heat_loss_w_per_m)
+    );
+}

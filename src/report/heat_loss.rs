@@ -174,10 +174,37 @@ pub fn section(h_out: &mut String, h: &HeatLossResult) {
         "<tr><th>trench</th><th class=\"n\">{:.2} W/m</th><th class=\"n\">{:.1} MWh over {} m</th><th></th></tr>\n</table>\n",
         h.total_heat_loss_w_per_m, h.annual_heat_loss_mwh, h.length_m
     );
+    if let Some(t) = &h.twin {
+        twin_section(h_out, t);
+    }
+    for p in h
+        .pipes
+        .iter()
+        .filter(|p| p.insulation_conductivity_w_m_k.is_some())
+    {
+        let _ = write!(
+            h_out,
+            "<p>Insulation of <b>{}</b> by EN 253 practice (aged λ50 and its slope): {:.4} W/(m K) at its mean temperature {:.1} °C (annual means).</p>\n",
+            esc(&p.id),
+            p.insulation_conductivity_w_m_k.unwrap_or(f64::NAN),
+            p.insulation_mean_temperature_c.unwrap_or(f64::NAN)
+        );
+    }
     if let Some(c) = &h.cross_check {
         let _ = write!(
             h_out,
-            "<h4>Analytic against numerical</h4>\n<p>The finite-volume engine's steady solution of the same trench (all soil layers resolved, annual-mean temperatures) beside the analytic annual means; largest difference {:.2} %.</p>\n<table>\n<tr><th>pipe</th><th class=\"n\">analytic</th><th class=\"n\">numerical</th></tr>\n",
+            "<h4>Analytic against numerical</h4>\n<p>The finite-volume engine's steady solution of the same section ({}; {} cells) beside the analytic annual means; trench total {:.2} W/m numerically ({:.2} % apart){}; largest difference {:.2} %.</p>\n<table>\n<tr><th>pipe</th><th class=\"n\">analytic</th><th class=\"n\">numerical</th></tr>\n",
+            esc(&c.model),
+            c.cells,
+            c.total_heat_loss_w_per_m,
+            c.total_relative_difference * 100.0,
+            match (
+                c.antisymmetric_heat_flow_w_per_m,
+                c.antisymmetric_relative_difference
+            ) {
+                (Some(a), Some(d)) => format!(", antisymmetric part {a:.2} W/m ({:.2} % apart)", d * 100.0),
+                _ => String::new(),
+            },
             c.max_relative_difference * 100.0
         );
         for (p, n) in h.pipes.iter().zip(&c.pipes) {
@@ -194,14 +221,17 @@ pub fn section(h_out: &mut String, h: &HeatLossResult) {
     if !h.neighbours.is_empty() {
         let _ = write!(
             h_out,
-            "<h4>Neighbouring points</h4>\n<table>\n<tr><th>point</th><th class=\"n\">highest soil temperature</th><th class=\"n\">month</th><th class=\"n\">limit</th><th>passes</th></tr>\n"
+            "<h4>Neighbouring points</h4>\n<table>\n<tr><th>point</th><th class=\"n\">highest soil temperature</th><th class=\"n\">numerical</th><th class=\"n\">month</th><th class=\"n\">limit</th><th>passes</th></tr>\n"
         );
         for n in &h.neighbours {
             let _ = write!(
                 h_out,
-                "<tr><td>{}</td><td class=\"n\">{:.1} °C</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td>{}</td></tr>\n",
+                "<tr><td>{}</td><td class=\"n\">{:.1} °C</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td>{}</td></tr>\n",
                 esc(&n.id),
                 n.max_temperature_c,
+                n.numerical_max_temperature_c
+                    .map(|t| format!("{t:.1} °C"))
+                    .unwrap_or_else(|| "—".into()),
                 n.month_of_max,
                 n.limit_c
                     .map(|l| format!("{l:.1} °C"))
@@ -220,7 +250,7 @@ pub fn section(h_out: &mut String, h: &HeatLossResult) {
     if let Some(sz) = &h.sizing {
         let _ = write!(
             h_out,
-            "<h4>Insulation sizing ({})</h4>\n<p>The outer diameter follows the layer; the pipes keep their depth and their clear horizontal gaps. Thinnest meeting the limit: <b>{}</b>. Lowest life-cycle cost: <b>{}</b>.</p>\n<table>\n<tr><th class=\"n\">thickness</th><th class=\"n\">trench loss</th><th class=\"n\">per year</th><th>meets limit</th><th class=\"n\">life-cycle cost / m</th></tr>\n",
+            "<h4>Insulation sizing ({})</h4>\n<p>The outer diameter follows the layer; the pipes keep their depth and their clear horizontal gaps. Thinnest meeting the limit: <b>{}</b>. Lowest life-cycle cost: <b>{}</b>.</p>\n<table>\n<tr><th class=\"n\">thickness</th><th class=\"n\">trench loss</th><th class=\"n\">per year</th><th>meets limit</th><th class=\"n\">life-cycle cost / m</th><th class=\"n\">numerical loss</th></tr>\n",
             esc(&sz.layer),
             sz.chosen_insulation_thickness_m
                 .map(|t| format!("{:.1} mm", t * 1000.0))
@@ -232,7 +262,7 @@ pub fn section(h_out: &mut String, h: &HeatLossResult) {
         for c in &sz.candidates {
             let _ = write!(
                 h_out,
-                "<tr><td class=\"n\">{:.1} mm</td><td class=\"n\">{:.2} W/m</td><td class=\"n\">{:.1} kWh/m</td><td>{}</td><td class=\"n\">{}</td></tr>\n",
+                "<tr><td class=\"n\">{:.1} mm</td><td class=\"n\">{:.2} W/m</td><td class=\"n\">{:.1} kWh/m</td><td>{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td></tr>\n",
                 c.insulation_thickness_m * 1000.0,
                 c.heat_loss_w_per_m,
                 c.annual_heat_loss_kwh_per_m,
@@ -243,11 +273,36 @@ pub fn section(h_out: &mut String, h: &HeatLossResult) {
                 },
                 c.life_cycle_cost_per_m
                     .map(|v| format!("{v:.0}"))
+                    .unwrap_or_else(|| "—".into()),
+                c.numerical_heat_loss_w_per_m
+                    .map(|v| format!("{v:.2} W/m"))
                     .unwrap_or_else(|| "—".into())
             );
         }
         let _ = write!(h_out, "</table>\n");
     }
+}
+
+/// The twin pipe's resistances and its symmetric/antisymmetric split.
+fn twin_section(h_out: &mut String, t: &crate::results::TwinResult) {
+    let _ = write!(
+        h_out,
+        "<h4>Twin pipe {}</h4>\n<p>Both carriers in one casing of {:.0} mm, {:.0} mm apart; Wallentén's first-order formulas (the form of EN 15698-1): symmetric resistance {:.4} m K/W (insulation, casing and ground; h<sub>s</sub> = {:.4}), antisymmetric {:.4} m K/W between the carriers (h<sub>a</sub> = {:.4}); insulation {:.4} W/(m K){}. Symmetric part (the twin's loss) {:.2} W/m, {:.1} kWh/m per year; supply → return {:.2} W/m.</p>\n",
+        esc(&t.id),
+        t.casing_outer_diameter_m * 1000.0,
+        t.carrier_spacing_m * 1000.0,
+        t.symmetric_resistance_m_k_per_w,
+        t.h_s,
+        t.antisymmetric_resistance_m_k_per_w,
+        t.h_a,
+        t.insulation_conductivity_w_m_k,
+        t.insulation_mean_temperature_c
+            .map(|m| format!(" at its mean temperature {m:.1} °C (EN 253 law)"))
+            .unwrap_or_default(),
+        t.symmetric_heat_loss_w_per_m,
+        t.annual_heat_loss_kwh_per_m,
+        t.antisymmetric_heat_flow_w_per_m
+    );
 }
 
 /// `<id>-monthly.csv`: the monthly figures with units in the header.

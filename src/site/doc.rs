@@ -194,8 +194,35 @@ pub struct WallLayerDoc {
     pub name: String,
     /// Radial thickness of the layer.
     pub thickness: Q<Length>,
-    /// Thermal conductivity of the layer material.
-    pub conductivity: Q<Conductivity>,
+    /// Thermal conductivity of the layer material: a value, or for insulation the EN 253 form
+    /// `{lambda_50, slope, ageing}` (heat-loss studies evaluate it at the layer's mean
+    /// temperature; other kinds use its value at 50 °C).
+    pub conductivity: LayerConductivityDoc,
+}
+
+/// A wall layer's conductivity.
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(untagged)]
+pub enum LayerConductivityDoc {
+    Value(Q<Conductivity>),
+    Insulation(InsulationConductivityDoc),
+}
+
+/// Insulation conductivity by EN 253 practice: `λ(T) = λ50·(1 + ageing) + slope·(T − 50 °C)`,
+/// `T` the layer's mean temperature.
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct InsulationConductivityDoc {
+    /// Conductivity of the fresh insulation at a mean temperature of 50 °C (λ50).
+    pub lambda_50: Q<Conductivity>,
+    /// Change of conductivity per kelvin of mean temperature, a plain number in W/(m K²)
+    /// (default 0).
+    #[serde(default)]
+    pub slope: Option<f64>,
+    /// Relative allowance for ageing over the design life, from the maker's ageing test
+    /// (a fraction or a percentage; default 0).
+    #[serde(default)]
+    pub ageing: Option<Q<Fraction>>,
 }
 
 /// The fluid in a pipe.

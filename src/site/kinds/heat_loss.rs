@@ -2,9 +2,9 @@
 //! temperature at neighbouring utilities.
 
 use super::MethodDoc;
-use crate::model::{Economics, HeatLoss, Neighbour, Sizing};
+use crate::model::{Economics, HeatLoss, Neighbour, Pipe, Sizing, TwinCasing, WallLayer};
 use crate::site::diagnostic::KeyPath;
-use crate::site::doc::PipeDoc;
+use crate::site::doc::{LayerConductivityDoc, PipeDoc, PipeFluidDoc, WallLayerDoc};
 use crate::site::quantity::*;
 use crate::site::validate::{self, Validator};
 use schemars::JsonSchema;
@@ -36,14 +36,69 @@ pub struct HeatLossDoc {
     /// Trench length for the route totals.
     #[serde(default)]
     pub length: Option<Q<Length>>,
-    /// The pipes in the trench, each with its fluid temperature.
+    /// The pipes in the trench, each with its fluid temperature (or give `twin` instead).
+    #[serde(default)]
     pub pipes: Vec<PipeDoc>,
+    /// Instead of `pipes`: a twin pipe, both carriers in one insulated casing.
+    #[serde(default)]
+    pub twin: Option<Box<TwinDoc>>,
     /// Candidate insulation thicknesses to compare.
     #[serde(default)]
     pub sizing: Option<SizingDoc>,
     /// Points whose soil temperature matters (a drinking-water main, a cable).
     #[serde(default)]
     pub neighbours: Vec<NeighbourDoc>,
+}
+
+/// A twin pipe: supply and return carriers side by side (supply on the left) in one insulated
+/// casing.
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct TwinDoc {
+    /// A name for the twin pipe (its carriers are reported as `supply` and `return`).
+    pub id: String,
+    /// Horizontal position of the casing's centre.
+    #[serde(default)]
+    pub x: Option<Q<Length>>,
+    /// Depth of the casing's CENTRE below the ground surface.
+    pub depth: Q<Length>,
+    /// Outer diameter of the casing.
+    pub outer_diameter: Q<Length>,
+    /// The casing wall (its thickness and conductivity).
+    pub casing: CasingDoc,
+    /// Conductivity of the insulation filling the casing: a value, or the EN 253 form
+    /// `{lambda_50, slope, ageing}`.
+    pub insulation_conductivity: LayerConductivityDoc,
+    /// Distance between the carriers' centres.
+    pub carrier_spacing: Q<Length>,
+    /// The two (equal) carrier pipes.
+    pub carriers: CarrierDoc,
+    /// Fluid in the supply carrier: a temperature (one value or 12 monthly values).
+    pub supply: PipeFluidDoc,
+    /// Fluid in the return carrier.
+    #[serde(rename = "return")]
+    pub return_: PipeFluidDoc,
+}
+
+/// The casing wall of a twin pipe.
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct CasingDoc {
+    /// Wall thickness.
+    pub thickness: Q<Length>,
+    /// Thermal conductivity of the casing material.
+    pub conductivity: Q<Conductivity>,
+}
+
+/// A carrier pipe of a twin pipe.
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct CarrierDoc {
+    /// Outer diameter of the carrier (steel) pipe.
+    pub outer_diameter: Q<Length>,
+    /// The carrier's wall layers from the inside out (e.g. the steel); may be empty.
+    #[serde(default)]
+    pub layers: Vec<WallLayerDoc>,
 }
 
 #[derive(Debug, Deserialize, JsonSchema)]
@@ -107,14 +162,42 @@ pub fn validate(doc: &HeatLossDoc, path: &KeyPath, v: &mut Validator) -> Option<
         None => Some(1.0),
         Some(q) => v.positive_q(q, &path.key("length"), "the trench length"),
     };
-    if doc.pipes.is_empty() {
-        v.out
-            .error(&path.key("pipes"), "a heat-loss study needs at least one pipe");
-    }
-    let pipes = validate::pipes(&doc.pipes, &path.key("pipes"), v);
-    let sizing = match &doc.sizing {
-        None => Some(None),
-        Some(s) => sizing(s, &doc.pipes, &path.key("sizing"), v).map(Some),
+    let (pipes, twin) = match (&doc.twin, doc.pipes.is_empty()) {
+        (Some(_), false) => {
+            v.out.error(
+                &path.key("twin"),
+                "give either `pipes` or `twin` in one heat-loss study, not both",
+            );
+            (None, None)
+        }
+        (Some(t), true) => match twin(t, &path.key("twin"), v) {
+            Some((pipes, casing)) => (Some(pipes), Some(Some(casing))),
+            None => (None, None),
+        },
+        (None, true) => {
+            v.out.error(
+                &path.key("pipes"),
+                "a heat-loss study needs at least one pipe (or a `twin`)",
+            );
+            (None, None)
+        }
+        (None, false) => (validate::pipes(&doc.pipes, &path.key("pipes"), v), Some(None)),
+    };
+    let sizing = match (&doc.sizing, &doc.twin) {
+        (None, _) => Some(None),
+        (Some(s), None) => sizing(s, &doc.pipes, &path.key("sizing"), v).map(Some),
+        (Some(s), Some(_)) => {
+            if s.layer != TWIN_INSULATION {
+                v.out.error(
+                    &path.key("sizing").key("layer"),
+                    format!(
+                        "with a twin pipe the sized layer is its insulation: write `layer: {TWIN_INSULATION}` (the thickness is the insulation's least cover over a carrier), not `{}`",
+                        s.layer
+                    ),
+                );
+            }
+            sizing(s, &[], &path.key("sizing"), v).map(Some)
+        }
     };
     let neighbours: Vec<Option<Neighbour>> = doc
         .neighbours
@@ -139,13 +222,18 @@ pub fn validate(doc: &HeatLossDoc, path: &KeyPath, v: &mut Validator) -> Option<
         surface_resistance_m2_k_w: surface_r?,
         sizing: sizing?,
         neighbours: neighbours.into_iter().collect::<Option<_>>()?,
+        twin: twin?,
     };
     inside_pipes(&study, path, v).then_some(study)
 }
 
 fn sizing(doc: &SizingDoc, pipes: &[PipeDoc], path: &KeyPath, v: &mut Validator) -> Option<Sizing> {
-    let has_layer = pipes.iter().any(|p| p.layers.iter().any(|l| l.name == doc.layer));
-    if !has_layer {
+    let has_layer = if pipes.is_empty() {
+        doc.layer == TWIN_INSULATION
+    } else {
+        pipes.iter().any(|p| p.layers.iter().any(|l| l.name == doc.layer))
+    };
+    if !has_layer && !pipes.is_empty() {
         let names: Vec<&str> = pipes
             .iter()
             .flat_map(|p| p.layers.iter().map(|l| l.name.as_str()))
@@ -207,10 +295,204 @@ fn sizing(doc: &SizingDoc, pipes: &[PipeDoc], path: &KeyPath, v: &mut Validator)
     })
 }
 
+/// The name `sizing.layer` takes for a twin pipe's insulation.
+pub const TWIN_INSULATION: &str = "insulation";
+
+/// The twin's two carriers as pipes (supply, return) and its casing.
+fn twin(doc: &TwinDoc, path: &KeyPath, v: &mut Validator) -> Option<(Vec<Pipe>, TwinCasing)> {
+    let x = match &doc.x {
+        Some(q) => v.q(q, &path.key("x")),
+        None => Some(0.0),
+    };
+    let depth = v.positive_q(
+        &doc.depth,
+        &path.key("depth"),
+        "the depth of the twin pipe's centre",
+    );
+    v.plausible(depth, (0.2, 10.0), &path.key("depth"), "a pipe depth", "m");
+    let diameter = v.positive_q(
+        &doc.outer_diameter,
+        &path.key("outer_diameter"),
+        "the casing diameter",
+    );
+    v.plausible(
+        diameter,
+        (0.05, 2.0),
+        &path.key("outer_diameter"),
+        "a casing diameter",
+        "m",
+    );
+    let casing_t = v.positive_q(
+        &doc.casing.thickness,
+        &path.key("casing").key("thickness"),
+        "the casing thickness",
+    );
+    let casing_k = v.positive_q(
+        &doc.casing.conductivity,
+        &path.key("casing").key("conductivity"),
+        "the casing conductivity",
+    );
+    let insulation = validate::layer_conductivity(
+        &doc.insulation_conductivity,
+        &path.key("insulation_conductivity"),
+        v,
+    );
+    let spacing = v.positive_q(
+        &doc.carrier_spacing,
+        &path.key("carrier_spacing"),
+        "the carrier spacing",
+    );
+    let cp = path.key("carriers");
+    let carrier_d = v.positive_q(
+        &doc.carriers.outer_diameter,
+        &cp.key("outer_diameter"),
+        "the carrier diameter",
+    );
+    let layers: Vec<Option<WallLayer>> = doc
+        .carriers
+        .layers
+        .iter()
+        .enumerate()
+        .map(|(i, l)| {
+            let p = cp.key("layers").index(i);
+            let t = v.positive_q(&l.thickness, &p.key("thickness"), "a wall-layer thickness");
+            let (k, law) = validate::layer_conductivity(&l.conductivity, &p.key("conductivity"), v)?;
+            Some(WallLayer {
+                name: l.name.clone(),
+                thickness_m: t?,
+                conductivity_w_m_k: k,
+                insulation_law: law,
+            })
+        })
+        .collect();
+    let supply =
+        validate::fluid_temperature(&doc.supply.temperature, &path.key("supply").key("temperature"), v);
+    let ret = validate::fluid_temperature(
+        &doc.return_.temperature,
+        &path.key("return").key("temperature"),
+        v,
+    );
+    let layers: Vec<WallLayer> = layers.into_iter().collect::<Option<_>>()?;
+    let (x, z, d, t_c, k_c, (k_i, law), s, d_p) = (
+        x?,
+        depth?,
+        diameter?,
+        casing_t?,
+        casing_k?,
+        insulation?,
+        spacing?,
+        carrier_d?,
+    );
+    let mut ok = true;
+    let mut fail = |v: &mut Validator, p: KeyPath, msg: String| {
+        v.out.error(&p, msg);
+        ok = false;
+    };
+    let wall: f64 = layers.iter().map(|l| l.thickness_m).sum();
+    if wall >= d_p / 2.0 {
+        fail(
+            v,
+            cp.key("layers"),
+            format!(
+                "the carrier's wall layers add up to {} m, but its outer radius is only {} m; they must leave a bore",
+                round3(wall),
+                round3(d_p / 2.0)
+            ),
+        );
+    }
+    if t_c >= d / 2.0 {
+        fail(
+            v,
+            path.key("casing").key("thickness"),
+            format!(
+                "the casing is {} m thick but the casing's outer radius is only {} m; it must leave room for the insulation",
+                round3(t_c),
+                round3(d / 2.0)
+            ),
+        );
+    }
+    if s <= d_p {
+        fail(
+            v,
+            path.key("carrier_spacing"),
+            format!(
+                "the carriers overlap: their centres are {} m apart but each is {} m across; the spacing must exceed the carrier diameter",
+                round3(s),
+                round3(d_p)
+            ),
+        );
+    } else if s / 2.0 + d_p / 2.0 >= d / 2.0 - t_c {
+        fail(
+            v,
+            path.key("carrier_spacing"),
+            format!(
+                "the carriers reach {} m from the casing's centre but its inner radius is {} m; reduce the spacing or enlarge the casing",
+                round3(s / 2.0 + d_p / 2.0),
+                round3(d / 2.0 - t_c)
+            ),
+        );
+    }
+    if z <= d / 2.0 {
+        fail(
+            v,
+            path.key("depth"),
+            format!(
+                "the top of the casing is above the ground surface: the depth is to the casing's centre and must exceed its outer radius ({} m)",
+                round3(d / 2.0)
+            ),
+        );
+    }
+    if !ok {
+        return None;
+    }
+    let carrier = |id: &str, x_m: f64, drive| Pipe {
+        id: id.into(),
+        x_m,
+        depth_m: z,
+        outer_diameter_m: d_p,
+        layers: layers.clone(),
+        drive,
+    };
+    Some((
+        vec![
+            carrier("supply", x - s / 2.0, supply?),
+            carrier("return", x + s / 2.0, ret?),
+        ],
+        TwinCasing {
+            id: doc.id.clone(),
+            x_m: x,
+            depth_m: z,
+            outer_diameter_m: d,
+            casing_thickness_m: t_c,
+            casing_conductivity_w_m_k: k_c,
+            insulation_conductivity_w_m_k: k_i,
+            insulation_law: law,
+            carrier_spacing_m: s,
+        },
+    ))
+}
+
+fn round3(x: f64) -> f64 {
+    (x * 1000.0).round() / 1000.0
+}
+
 /// A neighbour must lie in the soil, not inside a pipe.
 fn inside_pipes(s: &HeatLoss, path: &KeyPath, v: &mut Validator) -> bool {
     let mut ok = true;
     for (i, n) in s.neighbours.iter().enumerate() {
+        if let Some(t) = &s.twin
+            && (n.x_m - t.x_m).hypot(n.depth_m - t.depth_m) <= t.outer_radius_m()
+        {
+            v.out.error(
+                &path.key("neighbours").index(i),
+                format!(
+                    "neighbour `{}` lies inside twin pipe `{}`; place it in the soil",
+                    n.id, t.id
+                ),
+            );
+            ok = false;
+            continue;
+        }
         for p in &s.pipes {
             if (n.x_m - p.x_m).hypot(n.depth_m - p.depth_m) <= p.outer_radius_m() {
                 v.out.error(
