@@ -309,7 +309,7 @@ fn a_twin_pipe_matches_wallentens_formulas() {
 /// staircase of the insulation circle and the grid), which a second-order finite-volume scheme
 /// with about 12 cells per insulation radius and 10 per carrier diameter keeps to about 1 % on
 /// the total; the antisymmetric part crosses the 31 mm gap between the carriers on about 3
-/// cells. Both get the 3 % of the pair check (issue contract); measured: 0.7 % and 0.4 %.
+/// cells. Both get the 3 % of the pair check (issue contract); measured: 1.3 % and 0.5 %.
 #[test]
 fn a_twin_pipe_agrees_with_the_engine() {
     use burrow::physics::buried_pipe::twin::{TwinMethod, TwinPipe};

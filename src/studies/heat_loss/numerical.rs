@@ -10,8 +10,8 @@
 //!
 //! A twin pipe's insulation is a circle holding both carriers, which the engine (rectangular
 //! inclusions only) cannot take as such: it is meshed as a staircase of horizontal strips, each
-//! as wide as makes its area equal to the circle's slice between the same depths, with cells of
-//! a twelfth of the radius; the thin casing
+//! as wide as makes its area equal to the circle's slice between the same depths (to the
+//! nearest half cell), with cells of a twelfth of the radius; the thin casing
 //! wall (a few mm, below the cell size; about 1 % of the symmetric resistance) is left as soil.
 
 use crate::engine::section::{self, Drive, GridOptions, Inclusion, Pipe as EnginePipe, SectionModel};
@@ -64,7 +64,8 @@ impl TwinBody {
     }
 
     /// The equal-area staircase: strip `j` between depths `z_j` and `z_{j+1}` is centred on the
-    /// circle and as wide as the circle's area between those depths divided by the strip height.
+    /// circle and as wide as the circle's area between those depths divided by the strip height,
+    /// rounded to a whole number of half cells (the total area then falls short by 0.09 %).
     fn strips(&self) -> Result<Vec<Inclusion>, String> {
         let r = self.radius_m;
         let h = r / ROWS_PER_RADIUS as f64;
@@ -77,7 +78,10 @@ impl TwinBody {
         (0..2 * ROWS_PER_RADIUS)
             .map(|j| {
                 let y0 = -r + j as f64 * h;
-                let half = 0.5 * (area_to(y0 + h) - area_to(y0)) / h;
+                // Snapped to half a cell so that no sliver cells appear between nearly equal
+                // strips (the grid refines around every edge).
+                let exact = 0.5 * (area_to(y0 + h) - area_to(y0)) / h;
+                let half = (exact / (0.5 * h)).round() * 0.5 * h;
                 Ok(Inclusion {
                     x_min_m: self.x_m - half,
                     x_max_m: self.x_m + half,
@@ -187,7 +191,8 @@ fn unit_model(
 mod tests {
     use super::*;
 
-    /// The staircase keeps the circle's area (each strip holds its slice exactly).
+    /// The staircase keeps the circle's area: each strip holds its slice to the nearest half
+    /// cell of width, which for 24 strips costs 0.09 % of the area (computed for this layout).
     #[test]
     fn the_staircase_has_the_area_of_the_circle() {
         let body = TwinBody {
@@ -203,6 +208,6 @@ mod tests {
             .map(|s| (s.x_max_m - s.x_min_m) * (s.z_max_m - s.z_min_m))
             .sum();
         let exact = std::f64::consts::PI * 0.14 * 0.14;
-        assert!(((area - exact) / exact).abs() < 1e-12, "{area} vs {exact}");
+        assert!(((area - exact) / exact).abs() < 2e-3, "{area} vs {exact}");
     }
 }
