@@ -560,6 +560,27 @@ fn study(doc: &StudyDoc, path: &KeyPath, v: &mut Validator) -> Option<Study> {
     }
 }
 
+/// Validates cylindrical wall layers listed inside-out (each thickness positive, each
+/// conductivity a value or an insulation law); `None` when any is in error (all are reported).
+pub fn wall_layers(docs: &[WallLayerDoc], path: &KeyPath, v: &mut Validator) -> Option<Vec<WallLayer>> {
+    let layers: Vec<Option<WallLayer>> = docs
+        .iter()
+        .enumerate()
+        .map(|(i, l)| {
+            let p = path.index(i);
+            let t = v.positive_q(&l.thickness, &p.key("thickness"), "a wall-layer thickness");
+            let (k, law) = layer_conductivity(&l.conductivity, &p.key("conductivity"), v)?;
+            Some(WallLayer {
+                name: l.name.clone(),
+                thickness_m: t?,
+                conductivity_w_m_k: k,
+                insulation_law: law,
+            })
+        })
+        .collect();
+    layers.into_iter().collect()
+}
+
 /// Validates the pipes of a study's cross-section: sizes, wall layers, what drives each pipe, and
 /// the geometry (no pipe above the surface, no two pipes overlapping).
 pub fn pipes(docs: &[PipeDoc], path: &KeyPath, v: &mut Validator) -> Option<Vec<Pipe>> {
@@ -640,23 +661,7 @@ fn pipe(doc: &PipeDoc, path: &KeyPath, v: &mut Validator) -> Option<Pipe> {
             ),
         );
     }
-    let layers: Vec<Option<WallLayer>> = doc
-        .layers
-        .iter()
-        .enumerate()
-        .map(|(i, l)| {
-            let p = path.key("layers").index(i);
-            let t = v.positive_q(&l.thickness, &p.key("thickness"), "a wall-layer thickness");
-            let (k, law) = layer_conductivity(&l.conductivity, &p.key("conductivity"), v)?;
-            Some(WallLayer {
-                name: l.name.clone(),
-                thickness_m: t?,
-                conductivity_w_m_k: k,
-                insulation_law: law,
-            })
-        })
-        .collect();
-    let layers: Option<Vec<WallLayer>> = layers.into_iter().collect();
+    let layers = wall_layers(&doc.layers, &path.key("layers"), v);
     if let (Some(layers), Some(d)) = (&layers, diameter) {
         let total: f64 = layers.iter().map(|l| l.thickness_m).sum();
         if total >= d / 2.0 {

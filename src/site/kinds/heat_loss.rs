@@ -348,23 +348,7 @@ fn twin(doc: &TwinDoc, path: &KeyPath, v: &mut Validator) -> Option<(Vec<Pipe>, 
         &cp.key("outer_diameter"),
         "the carrier diameter",
     );
-    let layers: Vec<Option<WallLayer>> = doc
-        .carriers
-        .layers
-        .iter()
-        .enumerate()
-        .map(|(i, l)| {
-            let p = cp.key("layers").index(i);
-            let t = v.positive_q(&l.thickness, &p.key("thickness"), "a wall-layer thickness");
-            let (k, law) = validate::layer_conductivity(&l.conductivity, &p.key("conductivity"), v)?;
-            Some(WallLayer {
-                name: l.name.clone(),
-                thickness_m: t?,
-                conductivity_w_m_k: k,
-                insulation_law: law,
-            })
-        })
-        .collect();
+    let layers = validate::wall_layers(&doc.carriers.layers, &cp.key("layers"), v);
     let supply =
         validate::fluid_temperature(&doc.supply.temperature, &path.key("supply").key("temperature"), v);
     let ret = validate::fluid_temperature(
@@ -372,7 +356,7 @@ fn twin(doc: &TwinDoc, path: &KeyPath, v: &mut Validator) -> Option<(Vec<Pipe>, 
         &path.key("return").key("temperature"),
         v,
     );
-    let layers: Vec<WallLayer> = layers.into_iter().collect::<Option<_>>()?;
+    let layers: Vec<WallLayer> = layers?;
     let (x, z, d, t_c, k_c, (k_i, law), s, d_p) = (
         x?,
         depth?,
