@@ -4,13 +4,11 @@
 //! [`ground`] and [`studies`] (which call [`physics`] and [`engine`]) → [`results::Results`]
 //! (plain data) → [`report`] (HTML, plots, CSV, JSON). See DEVELOPERS.md for the code map.
 
-pub mod calendar;
-pub mod checks;
-pub mod engine;
+pub use burrow_physics::numerics::checks;
+pub use burrow_physics::{calendar, engine, materials, numerics, physics};
+
 pub mod ground;
-pub mod materials;
 pub mod model;
-pub mod physics;
 pub mod report;
 pub mod results;
 pub mod site;

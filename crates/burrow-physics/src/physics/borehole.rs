@@ -42,7 +42,7 @@
 //! two symmetric channels, R_b* = R_b η coth η with η = H/(ṁ c_p √(R_a R_b)). See
 //! [`effective_resistance_uniform_flux`] and [`effective_resistance_uniform_wall_temperature`].
 
-use crate::checks::positive;
+use crate::numerics::checks::positive;
 use nalgebra::{Complex, DMatrix, DVector};
 use std::f64::consts::PI;
 

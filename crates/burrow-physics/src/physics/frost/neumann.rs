@@ -23,31 +23,10 @@
 
 use std::f64::consts::PI;
 
-use statrs::function::erf::{erf, erfc};
+use crate::numerics::special::{erf, erfcx};
 
-use super::roots::decreasing_root_on_positive_axis;
+use crate::numerics::roots::decreasing_root_on_positive_axis;
 use super::{check_finite, check_non_negative, check_positive};
-
-/// `erfcx(x) = exp(x²)·erfc(x)` for x ≥ 0: directly below x = 8, beyond by the asymptotic
-/// series `1/(x√π) Σ (−1)^n (2n−1)!!/(2x²)^n` (Abramowitz & Stegun 7.1.23), summed until its
-/// terms fall below 1e-17 (for x ≥ 8 the smallest term is about e^{−x²} ≈ 1e-28, so the series is
-/// exact to rounding there). statrs 0.19's erf and erfc carry a relative error of up to about
-/// 1e-10 (measured against SciPy), which bounds the accuracy of every Neumann root here.
-fn erfcx(x: f64) -> f64 {
-    if x < 8.0 {
-        return (x * x).exp() * erfc(x);
-    }
-    let mut term = 1.0_f64;
-    let mut sum = 1.0;
-    for n in 1..60 {
-        term *= -(2.0 * f64::from(n) - 1.0) / (2.0 * x * x);
-        sum += term;
-        if term.abs() < 1e-17 {
-            break;
-        }
-    }
-    sum / (x * PI.sqrt())
-}
 
 /// The dimensionless Neumann root ξ (> 0) of `e^{−ξ²}/erf ξ − β/erfcx(νξ) = √π ξ · inv_ste`
 /// (Carslaw & Jaeger 1959 §11.2), where `beta` ≥ 0 is the unfrozen-side heat ratio, `nu` > 0
@@ -165,28 +144,6 @@ impl NeumannFreezing {
             // erfc(η)/erfc(ξν) = erfcx(η)/erfcx(ξν) · e^{(ξν)² − η²}, finite for large arguments.
             let ratio = erfcx(eta) / erfcx(xn) * (xn * xn - eta * eta).exp();
             Ok(self.initial_c - (self.initial_c - self.freezing_point_c) * ratio)
-        }
-    }
-}
-
-#[cfg(test)]
-mod tests {
-    use super::*;
-
-    #[test]
-    fn erfcx_matches_scipy_on_both_sides_of_the_series_switch() {
-        // scipy.special.erfcx (Faddeeva package), printed with repr: erfcx(7.999) from the direct
-        // branch within statrs' ~1e-10; erfcx(8.5), erfcx(25), erfcx(40) from the series within
-        // 1e-14.
-        let direct = erfcx(7.999);
-        let scipy_7_999 = 0.069_993_783_761_993_3;
-        assert!((direct / scipy_7_999 - 1.0).abs() < 2e-10, "{direct}");
-        for (x, scipy) in [
-            (8.5, 0.065_925_122_499_980_35),
-            (25.0, 0.022_549_572_432_641_357),
-            (40.0, 0.014_100_335_983_377_815),
-        ] {
-            assert!((erfcx(x) / scipy - 1.0).abs() < 1e-14, "{x}: {}", erfcx(x));
         }
     }
 }

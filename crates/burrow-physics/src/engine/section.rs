@@ -87,7 +87,7 @@
 
 use std::f64::consts::PI;
 
-use crate::checks::positive as check_positive;
+use crate::numerics::checks::positive as check_positive;
 
 use crate::engine::grid::{Axis, Grading, Zone};
 use crate::engine::linear::{AdiSolver, CellSolver, Coefficients, DirectSolver, PcgSolver, WallNode};

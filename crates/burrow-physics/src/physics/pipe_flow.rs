@@ -18,7 +18,7 @@
 //! same idea ends at Re = 10⁴ with a turbulent equation without the "−1000" term; it is not used
 //! here so that the tube Nusselt number is continuous with the 1976 correlation.
 
-use crate::checks::{non_negative as check_non_negative, positive as check_positive};
+use crate::numerics::checks::{non_negative as check_non_negative, positive as check_positive};
 use crate::materials::fluids::Fluid;
 use std::f64::consts::PI;
 

@@ -24,11 +24,7 @@
 
 use std::f64::consts::PI;
 
-/// Length of one day in seconds.
-pub const DAY_S: f64 = 86_400.0;
-
-/// Length of the model year (365 days) in seconds.
-pub const YEAR_S: f64 = 365.0 * DAY_S;
+pub use crate::numerics::time::{DAY_S, YEAR_S};
 
 /// A sinusoidal annual surface temperature and its penetration into the ground.
 ///

@@ -103,15 +103,15 @@ impl Position {
     }
 }
 
-/// The shared checks ([`crate::checks`]) with the unit named beside the quantity.
+/// The shared checks ([`crate::numerics::checks`]) with the unit named beside the quantity.
 pub(crate) fn positive(what: &str, value: f64, unit: &str) -> Result<(), String> {
-    crate::checks::positive(&format!("{what} ({unit})"), value)
+    crate::numerics::checks::positive(&format!("{what} ({unit})"), value)
 }
 
 pub(crate) fn not_negative(what: &str, value: f64, unit: &str) -> Result<(), String> {
-    crate::checks::non_negative(&format!("{what} ({unit})"), value)
+    crate::numerics::checks::non_negative(&format!("{what} ({unit})"), value)
 }
 
 pub(crate) fn finite(what: &str, value: f64, unit: &str) -> Result<(), String> {
-    crate::checks::finite(&format!("{what} ({unit})"), value)
+    crate::numerics::checks::finite(&format!("{what} ({unit})"), value)
 }

@@ -5,7 +5,7 @@
 /// A root of `f` in `[a, b]` where `f(a)` and `f(b)` differ in sign, to an absolute tolerance
 /// of about `4 ε |x| + tol`. Returns `None` when the bracket does not change sign or `f` is not
 /// finite at the ends.
-pub(super) fn brent<F: Fn(f64) -> f64>(f: F, mut a: f64, mut b: f64, tol: f64) -> Option<f64> {
+pub fn brent<F: Fn(f64) -> f64>(f: F, mut a: f64, mut b: f64, tol: f64) -> Option<f64> {
     let mut fa = f(a);
     let mut fb = f(b);
     if !(fa.is_finite() && fb.is_finite()) || fa * fb > 0.0 {
@@ -81,7 +81,7 @@ pub(super) fn brent<F: Fn(f64) -> f64>(f: F, mut a: f64, mut b: f64, tol: f64) -
 /// Finds the root of a function that decreases through zero on `(0, ∞)`: starting from `guess`
 /// it halves a lower end until `f > 0` and doubles an upper end until `f < 0`, then applies
 /// [`brent`] with a relative tolerance of about 1e-14.
-pub(super) fn decreasing_root_on_positive_axis<F: Fn(f64) -> f64>(f: F, guess: f64) -> Option<f64> {
+pub fn decreasing_root_on_positive_axis<F: Fn(f64) -> f64>(f: F, guess: f64) -> Option<f64> {
     let mut lo = guess;
     let mut hi = guess;
     for _ in 0..1100 {

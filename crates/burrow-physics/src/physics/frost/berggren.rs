@@ -28,7 +28,7 @@
 //! here `F(X) = F` is solved by Brent's method on X, which gives the same fixed point.
 
 use super::neumann::neumann_xi;
-use super::roots::brent;
+use crate::numerics::roots::brent;
 use super::stefan::{FrostLayer, check_layers, latent_resistance_sum, slices};
 use super::{check_finite, check_non_negative, check_positive};
 

@@ -19,7 +19,7 @@
 //!   Physics of Plant Environment, North-Holland (1963), Table 7.1 (from
 //!   memory): heat capacities of soil constituents.
 
-use crate::checks::positive as check_positive;
+use crate::numerics::checks::positive as check_positive;
 use std::sync::OnceLock;
 
 // ---------------------------------------------------------------------------

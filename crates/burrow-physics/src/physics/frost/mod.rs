@@ -29,7 +29,6 @@ mod index;
 mod n_factors;
 mod neumann;
 mod pipe;
-mod roots;
 mod stefan;
 
 pub use berggren::{BerggrenDepth, FreezingSeason, berggren_lambda, modified_berggren_depth};
@@ -49,7 +48,7 @@ pub use pipe::{
 };
 pub use stefan::{FrostLayer, layered_stefan_depth_m, layered_stefan_index_c_s, stefan_depth_m};
 
-use crate::checks::{finite as check_finite, non_negative as check_non_negative, positive as check_positive};
+use crate::numerics::checks::{finite as check_finite, non_negative as check_non_negative, positive as check_positive};
 use crate::physics::annual_wave::DAY_S;
 
 /// Converts a freezing or thawing index from °C·days to °C·s (× 86 400).

@@ -10,7 +10,7 @@
 
 use statrs::distribution::{ContinuousCDF, Gumbel};
 
-use super::roots::brent;
+use crate::numerics::roots::brent;
 
 /// Euler–Mascheroni constant γ.
 const EULER_GAMMA: f64 = 0.577_215_664_901_532_9;
