@@ -32,7 +32,7 @@ fn model(freezing: bool) -> SectionModel {
         x_m: 0.0,
         z_m: 1.2,
         outer_radius_m: 0.1,
-        wall_resistance_m_k_w: 0.8,
+        wall_resistance_m_k_per_w: 0.8,
         drive: Drive::FluidTemperature(Box::new(|_| 8.0)),
     });
     m

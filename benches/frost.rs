@@ -36,7 +36,7 @@ fn main() {
         c_frozen_j_m3k: 1.9e6,
         k_unfrozen_w_mk: 1.2,
         c_unfrozen_j_m3k: 2.5e6,
-        latent_j_m3: 1.0e8,
+        latent_j_per_m3: 1.0e8,
         initial_c: 5.0,
         surface_c: -10.0,
         freezing_point_c: 0.0,
@@ -89,7 +89,7 @@ fn main() {
         wall_resistance_m_k_per_w: 0.15,
         ground_resistance_m_k_per_w: 0.75,
         water_heat_capacity_j_m3k: 4.218e6,
-        water_latent_j_m3: 3.3348e8,
+        water_latent_j_per_m3: 3.3348e8,
         freezing_point_c: 0.0,
     };
     let ground: Vec<f64> = (0..8760)

@@ -72,8 +72,8 @@ fn main() {
         borehole_radius_m: 0.075,
         pipe_outer_radius_m: 0.016,
         shank_spacing_m: 0.07,
-        grout_conductivity_w_m_k: 1.5,
-        ground_conductivity_w_m_k: 2.5,
+        grout_conductivity_w_per_m_k: 1.5,
+        ground_conductivity_w_per_m_k: 2.5,
         pipe_resistance_m_k_per_w: 0.05,
     };
     let multipole = median_of(21, || {

@@ -10,7 +10,7 @@ use std::time::Instant;
 struct Case {
     name: &'static str,
     layers: Vec<ColumnLayer>,
-    geothermal_flux_w_m2: f64,
+    geothermal_flux_w_per_m2: f64,
     climate: AnnualWave,
 }
 
@@ -21,13 +21,13 @@ fn main() -> Result<(), String> {
         Case {
             name: "dry homogeneous, no geothermal flux",
             layers: vec![ColumnLayer::dry(1.0, 1.5, 2.2e6)],
-            geothermal_flux_w_m2: 0.0,
+            geothermal_flux_w_per_m2: 0.0,
             climate: mild,
         },
         Case {
             name: "dry homogeneous, 0.06 W/m2",
             layers: vec![ColumnLayer::dry(1.0, 1.5, 2.2e6)],
-            geothermal_flux_w_m2: 0.06,
+            geothermal_flux_w_per_m2: 0.06,
             climate: mild,
         },
         Case {
@@ -36,7 +36,7 @@ fn main() -> Result<(), String> {
                 ColumnLayer::moist(1.2, 1.1, 1.8, 2.6e6, 1.9e6, 1.0e8),
                 ColumnLayer::moist(1.0, 1.6, 2.4, 2.4e6, 1.8e6, 0.8e8),
             ],
-            geothermal_flux_w_m2: 0.06,
+            geothermal_flux_w_per_m2: 0.06,
             climate: cold,
         },
     ];
@@ -53,7 +53,7 @@ fn main() -> Result<(), String> {
         let mut profile = None;
         for _ in 0..5 {
             let start = Instant::now();
-            let p = periodic_profile(&case.layers, &surface, case.geothermal_flux_w_m2, &opts)?;
+            let p = periodic_profile(&case.layers, &surface, case.geothermal_flux_w_per_m2, &opts)?;
             fastest = fastest.min(start.elapsed().as_secs_f64());
             profile = Some(p);
         }

@@ -56,7 +56,7 @@ pub struct AirSeries {
 #[derive(Clone, Debug, PartialEq)]
 pub struct Ground {
     pub initial_temperature_c: Option<f64>,
-    pub geothermal_flux_w_m2: f64,
+    pub geothermal_flux_w_per_m2: f64,
     pub layers: Vec<SoilLayer>,
 }
 
@@ -65,14 +65,14 @@ pub struct SoilLayer {
     pub name: String,
     /// `None` for the last layer, which extends to the bottom of every model.
     pub thickness_m: Option<f64>,
-    pub conductivity_w_m_k: f64,
-    pub heat_capacity_j_m3_k: f64,
-    pub frozen_conductivity_w_m_k: f64,
-    pub frozen_heat_capacity_j_m3_k: f64,
+    pub conductivity_w_per_m_k: f64,
+    pub heat_capacity_j_per_m3_k: f64,
+    pub frozen_conductivity_w_per_m_k: f64,
+    pub frozen_heat_capacity_j_per_m3_k: f64,
     /// Volumetric water content, 0..1.
     pub water_content: f64,
     /// Latent heat released when all the layer's water freezes, J/m3.
-    pub latent_heat_j_m3: f64,
+    pub latent_heat_j_per_m3: f64,
     /// The water freezes over (−interval, 0] °C.
     pub freezing_interval_k: f64,
     /// The preset the layer started from, if any.
@@ -106,8 +106,8 @@ impl Ground {
         let first = &self.layers[0];
         self.layers.iter().all(|l| {
             l.water_content == 0.0
-                && l.conductivity_w_m_k == first.conductivity_w_m_k
-                && l.heat_capacity_j_m3_k == first.heat_capacity_j_m3_k
+                && l.conductivity_w_per_m_k == first.conductivity_w_per_m_k
+                && l.heat_capacity_j_per_m3_k == first.heat_capacity_j_per_m3_k
         })
     }
 }
@@ -183,7 +183,7 @@ pub struct CrossSection {
     /// Times of the field plots, s from the start.
     pub snapshots_s: Vec<f64>,
     /// Between the surface temperature and the ground; 0 = the surface temperature is imposed.
-    pub surface_resistance_m2_k_w: f64,
+    pub surface_resistance_m2_k_per_w: f64,
 }
 
 /// Transient over a duration at a fixed step, or the steady state (annual-mean surface and fluid
@@ -212,8 +212,8 @@ pub struct Inclusion {
     pub depth_m: f64,
     pub width_m: f64,
     pub height_m: f64,
-    pub conductivity_w_m_k: f64,
-    pub heat_capacity_j_m3_k: f64,
+    pub conductivity_w_per_m_k: f64,
+    pub heat_capacity_j_per_m3_k: f64,
 }
 
 /// A pipe in a cross-section (the same in every study kind). `x` across, `depth` down to the
@@ -234,9 +234,9 @@ pub struct WallLayer {
     pub name: String,
     pub thickness_m: f64,
     /// With an [`InsulationLaw`], its design value at 50 °C (the aged λ50).
-    pub conductivity_w_m_k: f64,
+    pub conductivity_w_per_m_k: f64,
     /// Insulation conductivity by EN 253 practice; the heat-loss study evaluates it at the
-    /// layer's mean temperature, other kinds use `conductivity_w_m_k`.
+    /// layer's mean temperature, other kinds use `conductivity_w_per_m_k`.
     pub insulation_law: Option<InsulationLaw>,
 }
 
@@ -244,9 +244,9 @@ pub struct WallLayer {
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct InsulationLaw {
     /// Fresh λ50 (at a mean temperature of 50 °C), W/(m K).
-    pub lambda_50_w_m_k: f64,
+    pub lambda_50_w_per_m_k: f64,
     /// dλ/dT, W/(m K²).
-    pub slope_w_m_k2: f64,
+    pub slope_w_per_m_k2: f64,
     /// Relative allowance for ageing (0.15 = +15 %).
     pub ageing: f64,
 }
@@ -283,7 +283,7 @@ pub struct HeatLoss {
     /// Trench length for route totals, m.
     pub length_m: f64,
     pub pipes: Vec<Pipe>,
-    pub surface_resistance_m2_k_w: f64,
+    pub surface_resistance_m2_k_per_w: f64,
     pub sizing: Option<Sizing>,
     pub neighbours: Vec<Neighbour>,
     /// A twin pipe; then `pipes` holds its two carriers (supply first), each with its own
@@ -300,9 +300,9 @@ pub struct TwinCasing {
     pub depth_m: f64,
     pub outer_diameter_m: f64,
     pub casing_thickness_m: f64,
-    pub casing_conductivity_w_m_k: f64,
+    pub casing_conductivity_w_per_m_k: f64,
     /// Design value (aged λ50 with a law), W/(m K).
-    pub insulation_conductivity_w_m_k: f64,
+    pub insulation_conductivity_w_per_m_k: f64,
     pub insulation_law: Option<InsulationLaw>,
     /// Centre-to-centre distance of the carriers, m.
     pub carrier_spacing_m: f64,
@@ -378,8 +378,8 @@ pub struct FrostBleed {
 #[derive(Clone, Debug, PartialEq)]
 pub struct FrostBoard {
     pub thickness_m: f64,
-    pub conductivity_w_m_k: f64,
-    pub heat_capacity_j_m3_k: f64,
+    pub conductivity_w_per_m_k: f64,
+    pub heat_capacity_j_per_m3_k: f64,
     /// Clear distance between the underside of the board and the pipe crown, m.
     pub gap_m: f64,
     /// Widest board tried, m.
@@ -402,13 +402,13 @@ pub struct Borefield {
     pub top_depth_m: f64,
     pub borehole_radius_m: f64,
     pub exchanger: HeatExchanger,
-    pub grout_conductivity_w_m_k: f64,
+    pub grout_conductivity_w_per_m_k: f64,
     /// A measured effective borehole resistance (thermal response test), m K/W; replaces the
     /// calculated one.
-    pub measured_resistance_m_k_w: Option<f64>,
+    pub measured_resistance_m_k_per_w: Option<f64>,
     pub fluid: crate::materials::fluids::Fluid,
     /// Volume flow through one borehole (all its circuits together), m3/s.
-    pub flow_per_borehole_m3_s: f64,
+    pub flow_per_borehole_m3_per_s: f64,
     pub loads: GroundLoads,
     /// Limits on the mean fluid temperature, °C.
     pub min_fluid_c: f64,
@@ -424,7 +424,7 @@ pub struct Borefield {
     pub pump_efficiency: f64,
     /// A measured ground conductivity (thermal response test), W/(m K); replaces the
     /// depth-averaged conductivity of the soil layers.
-    pub ground_conductivity_w_m_k: Option<f64>,
+    pub ground_conductivity_w_per_m_k: Option<f64>,
 }
 
 /// The condition at the borehole walls for the g-function.
@@ -458,7 +458,7 @@ pub enum HeatExchanger {
 pub struct LoopPipe {
     pub outer_diameter_m: f64,
     pub wall_m: f64,
-    pub conductivity_w_m_k: f64,
+    pub conductivity_w_per_m_k: f64,
     /// Absolute roughness of the inner surface, m.
     pub roughness_m: f64,
 }

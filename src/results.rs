@@ -97,7 +97,8 @@ pub struct HeatLossResult {
     pub annual_heat_loss_mwh: f64,
     pub length_m: f64,
     /// Conductivity of the soil the analytic method used (the layer at the pipes).
-    pub soil_conductivity_w_m_k: f64,
+    #[serde(rename = "soil_conductivity_w_m_k")]
+    pub soil_conductivity_w_per_m_k: f64,
     pub surface_resistance_m2_k_per_w: f64,
     /// Undisturbed monthly ground temperature at the mean pipe depth, °C.
     pub monthly_ground_temperature_c: Vec<f64>,
@@ -127,7 +128,8 @@ pub struct PipeLoss {
     /// With an EN 253 conductivity law on a wall layer: its conductivity at the layer's mean
     /// temperature, averaged over the months, W/(m K).
     #[serde(skip_serializing_if = "Option::is_none")]
-    pub insulation_conductivity_w_m_k: Option<f64>,
+    #[serde(rename = "insulation_conductivity_w_m_k")]
+    pub insulation_conductivity_w_per_m_k: Option<f64>,
     /// That layer's mean temperature (average of its two faces), averaged over the months, °C.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub insulation_mean_temperature_c: Option<f64>,
@@ -140,7 +142,8 @@ pub struct TwinResult {
     pub casing_outer_diameter_m: f64,
     pub carrier_spacing_m: f64,
     /// Insulation conductivity used (the annual mean with an EN 253 law), W/(m K).
-    pub insulation_conductivity_w_m_k: f64,
+    #[serde(rename = "insulation_conductivity_w_m_k")]
+    pub insulation_conductivity_w_per_m_k: f64,
     /// Mean insulation temperature (carrier surfaces and casing inner face), annual mean, °C,
     /// with an EN 253 law.
     #[serde(skip_serializing_if = "Option::is_none")]
@@ -367,7 +370,8 @@ pub struct BleedFigures {
 #[derive(Clone, Debug, Serialize)]
 pub struct BoardFigures {
     pub thickness_m: f64,
-    pub conductivity_w_m_k: f64,
+    #[serde(rename = "conductivity_w_m_k")]
+    pub conductivity_w_per_m_k: f64,
     /// Clear distance between the board's underside and the crown, m.
     pub gap_m: f64,
     pub max_width_m: f64,
@@ -447,8 +451,10 @@ pub struct FluxArrows {
     pub x_m: Vec<f64>,
     pub z_m: Vec<f64>,
     /// Components, W/m²: across (towards +x) and down (towards depth).
-    pub qx_w_m2: Vec<f64>,
-    pub qz_w_m2: Vec<f64>,
+    #[serde(rename = "qx_w_m2")]
+    pub qx_w_per_m2: Vec<f64>,
+    #[serde(rename = "qz_w_m2")]
+    pub qz_w_per_m2: Vec<f64>,
 }
 
 #[derive(Clone, Debug, Serialize)]
@@ -544,11 +550,14 @@ pub struct GPoint {
 pub struct BorefieldGround {
     /// Conductivity along the active length (thickness-weighted mean of the layers, or the
     /// measured value).
-    pub conductivity_w_m_k: f64,
+    #[serde(rename = "conductivity_w_m_k")]
+    pub conductivity_w_per_m_k: f64,
     /// `layers` or `measured`.
     pub conductivity_source: String,
-    pub heat_capacity_j_m3_k: f64,
-    pub diffusivity_m2_s: f64,
+    #[serde(rename = "heat_capacity_j_m3_k")]
+    pub heat_capacity_j_per_m3_k: f64,
+    #[serde(rename = "diffusivity_m2_s")]
+    pub diffusivity_m2_per_s: f64,
     /// Undisturbed temperature: the annual mean averaged over the active length.
     pub undisturbed_c: f64,
 }
@@ -559,8 +568,10 @@ pub struct BorefieldFluid {
     pub mass_fraction: f64,
     /// Temperature at which the properties for the resistances were taken (the lower limit).
     pub property_temperature_c: f64,
-    pub density_kg_m3: f64,
-    pub specific_heat_j_kg_k: f64,
+    #[serde(rename = "density_kg_m3")]
+    pub density_kg_per_m3: f64,
+    #[serde(rename = "specific_heat_j_kg_k")]
+    pub specific_heat_j_per_kg_k: f64,
     pub flow_per_borehole_l_per_s: f64,
     /// Reynolds number of the slowest channel at the coldest fluid temperature.
     pub reynolds: f64,

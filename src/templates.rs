@@ -27,13 +27,13 @@ pub fn materials_table() -> String {
             s,
             "{:<18} {:>6.2} / {:<6.2} {:>7.2} / {:<7.2} {:>7.0}% {:>6.2}–{:<6.2}  {}",
             p.name,
-            p.conductivity_w_m_k,
-            p.frozen_conductivity_w_m_k,
-            p.heat_capacity_j_m3_k / 1e6,
-            p.frozen_heat_capacity_j_m3_k / 1e6,
+            p.conductivity_w_per_m_k,
+            p.frozen_conductivity_w_per_m_k,
+            p.heat_capacity_j_per_m3_k / 1e6,
+            p.frozen_heat_capacity_j_per_m3_k / 1e6,
             p.water_content * 100.0,
-            p.conductivity_range_w_m_k.0,
-            p.conductivity_range_w_m_k.1,
+            p.conductivity_range_w_per_m_k.0,
+            p.conductivity_range_w_per_m_k.1,
             p.source
         );
     }

@@ -108,7 +108,7 @@ fn constant_load_ends_at_the_g_function_closed_form() {
         );
     }
     // Inlet colder than the mean by Q/(2 ṁ c_p), ṁ c_p at the lower limit (−3 °C).
-    let capacity = b.fluid.density_kg_m3 * 0.5e-3 * b.fluid.specific_heat_j_kg_k;
+    let capacity = b.fluid.density_kg_per_m3 * 0.5e-3 * b.fluid.specific_heat_j_per_kg_k;
     let inlet = b.months[35].mean_c - power / (2.0 * capacity);
     assert!(
         (b.coldest_fluid_c - inlet).abs() < 1e-9,
@@ -409,8 +409,8 @@ fn loop_pressure_drop_matches_darcy_weisbach_with_blasius() {
         burrow::materials::fluids::Fluid::new(burrow::materials::fluids::Mixture::Water, 0.0).unwrap();
     let t = b.coldest_fluid_c.max(0.0);
     // The mass flow is fixed by the volume flow at the lower limit (6 °C).
-    let mass_flow = fluid.density_kg_m3(6.0) * 0.6e-3;
-    let rho = fluid.density_kg_m3(t);
+    let mass_flow = fluid.density_kg_per_m3(6.0) * 0.6e-3;
+    let rho = fluid.density_kg_per_m3(t);
     let v = mass_flow / (rho * area);
     assert!((rho * v * d / fluid.dynamic_viscosity_pa_s(t) - re).abs() < 1e-6 * re);
     let f = 0.316 * re.powf(-0.25);

@@ -13,8 +13,8 @@ fn single(rb: f64, rp: f64, s: f64, lb: f64, l: f64, r_pipe: f64) -> SingleU {
         borehole_radius_m: rb,
         pipe_outer_radius_m: rp,
         shank_spacing_m: s,
-        grout_conductivity_w_m_k: lb,
-        ground_conductivity_w_m_k: l,
+        grout_conductivity_w_per_m_k: lb,
+        ground_conductivity_w_per_m_k: l,
         pipe_resistance_m_k_per_w: r_pipe,
     }
 }
@@ -67,8 +67,8 @@ fn centred_pipe_gives_the_concentric_cylinder_resistance() {
     for (lb, l) in [(1.5, 2.5), (3.0, 0.5), (2.0, 2.0)] {
         let section = CrossSection {
             borehole_radius_m: 0.07,
-            grout_conductivity_w_m_k: lb,
-            ground_conductivity_w_m_k: l,
+            grout_conductivity_w_per_m_k: lb,
+            ground_conductivity_w_per_m_k: l,
             pipes: vec![PipeInBorehole {
                 x_m: 0.0,
                 y_m: 0.0,
@@ -93,8 +93,8 @@ fn eccentric_pipe_in_isothermal_borehole_matches_bipolar_shape_factor() {
     for e in [0.01, 0.03, 0.045] {
         let section = CrossSection {
             borehole_radius_m: rb,
-            grout_conductivity_w_m_k: lb,
-            ground_conductivity_w_m_k: 1e12,
+            grout_conductivity_w_per_m_k: lb,
+            ground_conductivity_w_per_m_k: 1e12,
             pipes: vec![PipeInBorehole {
                 x_m: e,
                 y_m: 0.0,
@@ -119,8 +119,8 @@ fn resistance_matrix_is_symmetric() {
         borehole_radius_m: 0.07,
         pipe_outer_radius_m: 0.016,
         shank_spacing_m: 0.09,
-        grout_conductivity_w_m_k: 1.2,
-        ground_conductivity_w_m_k: 3.0,
+        grout_conductivity_w_per_m_k: 1.2,
+        ground_conductivity_w_per_m_k: 3.0,
         pipe_resistance_m_k_per_w: 0.07,
         pairing: DoubleUPairing::Diagonal,
     };
@@ -190,8 +190,8 @@ fn multipole_for(case: &MfsCase, order: usize) -> BoreholeResistances {
             borehole_radius_m: v[0],
             pipe_outer_radius_m: v[1],
             shank_spacing_m: v[2],
-            grout_conductivity_w_m_k: v[3],
-            ground_conductivity_w_m_k: v[4],
+            grout_conductivity_w_per_m_k: v[3],
+            ground_conductivity_w_per_m_k: v[4],
             pipe_resistance_m_k_per_w: v[5],
             pairing: if case.pairing == "adjacent" {
                 DoubleUPairing::Adjacent
@@ -257,8 +257,8 @@ fn double_u_pairing_changes_only_the_internal_resistance() {
         borehole_radius_m: 0.07,
         pipe_outer_radius_m: 0.016,
         shank_spacing_m: 0.09,
-        grout_conductivity_w_m_k: 1.5,
-        ground_conductivity_w_m_k: 2.5,
+        grout_conductivity_w_per_m_k: 1.5,
+        ground_conductivity_w_per_m_k: 2.5,
         pipe_resistance_m_k_per_w: 0.05,
         pairing: DoubleUPairing::Diagonal,
     };
@@ -282,11 +282,11 @@ fn coaxial_borehole_resistance_equals_centred_pipe_multipole() {
         borehole_radius_m: 0.07,
         inner_pipe_inner_radius_m: 0.0204,
         inner_pipe_outer_radius_m: 0.025,
-        inner_pipe_conductivity_w_m_k: 0.4,
+        inner_pipe_conductivity_w_per_m_k: 0.4,
         outer_pipe_inner_radius_m: 0.0509,
         outer_pipe_outer_radius_m: 0.0555,
-        outer_pipe_conductivity_w_m_k: 0.4,
-        grout_conductivity_w_m_k: 2.0,
+        outer_pipe_conductivity_w_per_m_k: 0.4,
+        grout_conductivity_w_per_m_k: 2.0,
         h_inner_pipe_w_m2_k: 1500.0,
         h_annulus_inner_wall_w_m2_k: 900.0,
         h_annulus_outer_wall_w_m2_k: 800.0,
@@ -295,8 +295,8 @@ fn coaxial_borehole_resistance_equals_centred_pipe_multipole() {
     let r_p = 1.0 / (2.0 * PI * 0.0509 * 800.0) + (0.0555_f64 / 0.0509).ln() / (2.0 * PI * 0.4);
     let section = CrossSection {
         borehole_radius_m: 0.07,
-        grout_conductivity_w_m_k: 2.0,
-        ground_conductivity_w_m_k: 2.5,
+        grout_conductivity_w_per_m_k: 2.0,
+        ground_conductivity_w_per_m_k: 2.5,
         pipes: vec![PipeInBorehole {
             x_m: 0.0,
             y_m: 0.0,

@@ -46,7 +46,7 @@ fn engine_resistance(rb: f64, rp: f64, s: f64) -> f64 {
             x_m: x,
             z_m: depth,
             outer_radius_m: rp,
-            wall_resistance_m_k_w: 0.0,
+            wall_resistance_m_k_per_w: 0.0,
             drive: Drive::FluidTemperature(Box::new(|_| 10.0)),
         })
         .collect();
@@ -79,8 +79,8 @@ fn multipole_borehole_resistance_matches_the_engine_steady_section() {
             borehole_radius_m: rb,
             pipe_outer_radius_m: rp,
             shank_spacing_m: s,
-            grout_conductivity_w_m_k: K,
-            ground_conductivity_w_m_k: K,
+            grout_conductivity_w_per_m_k: K,
+            ground_conductivity_w_per_m_k: K,
             pipe_resistance_m_k_per_w: 0.0,
         }
         .resistances(10)

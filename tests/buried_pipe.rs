@@ -20,7 +20,7 @@ use burrow::physics::buried_pipe::system::{
 };
 use burrow::physics::buried_pipe::twin::{TwinMethod, TwinPipe};
 use burrow::physics::buried_pipe::wall::{
-    LinearConductivity, WallLayer, aged_lambda50_w_m_k, face_temperatures_c, wall_resistance_m_k_per_w,
+    LinearConductivity, WallLayer, aged_lambda50_w_per_m_k, face_temperatures_c, wall_resistance_m_k_per_w,
 };
 use burrow::physics::buried_pipe::{DEFAULT_SURFACE_RESISTANCE_M2_K_PER_W, GroundForm, Position, Soil};
 
@@ -316,8 +316,8 @@ fn twin_dn50(depth_m: f64) -> TwinPipe {
         centre: Position::new(0.0, depth_m),
         casing_outer_radius_m: 0.1091,
         casing_thickness_m: 0.0,
-        casing_conductivity_w_m_k: 0.4,
-        insulation_conductivity_w_m_k: 0.027,
+        casing_conductivity_w_per_m_k: 0.4,
+        insulation_conductivity_w_per_m_k: 0.027,
         carrier_outer_radius_m: 0.03015,
         carrier_spacing_m: 0.0803,
         carrier_wall_resistance_m_k_per_w: 0.0,
@@ -581,9 +581,9 @@ fn pair_case() -> SizingCase {
         depth_m: 1.0,
         carrier_outer_radius_m: 0.05715,
         carrier_layers: vec![WallLayer::new(0.0036, 50.0)],
-        insulation_conductivity_w_m_k: 0.027,
+        insulation_conductivity_w_per_m_k: 0.027,
         casing_thickness_m: 0.004,
-        casing_conductivity_w_m_k: 0.4,
+        casing_conductivity_w_per_m_k: 0.4,
         soil: soil(DEFAULT_SURFACE_RESISTANCE_M2_K_PER_W),
         form: GroundForm::Exact,
         supply_c: [80.0; 12],
@@ -697,7 +697,7 @@ fn temperature_dependent_insulation_settles_at_its_mean_temperature() {
         assert!((lambda - expect).abs() < 1e-8);
     }
     assert!(lambdas[0].unwrap() > lambdas[1].unwrap());
-    assert!(aged_lambda50_w_m_k(0.026, 0.15).unwrap() > 0.026);
+    assert!(aged_lambda50_w_per_m_k(0.026, 0.15).unwrap() > 0.026);
 }
 
 #[test]

@@ -239,8 +239,8 @@ fn double_u_effective_resistance_matches_four_leg_depth_integration() {
             borehole_radius_m: 0.07,
             pipe_outer_radius_m: 0.016,
             shank_spacing_m: 0.09,
-            grout_conductivity_w_m_k: 1.5,
-            ground_conductivity_w_m_k: 2.5,
+            grout_conductivity_w_per_m_k: 1.5,
+            ground_conductivity_w_per_m_k: 2.5,
             pipe_resistance_m_k_per_w: 0.06,
             pairing,
         };

@@ -61,9 +61,9 @@ enum Property {
 
 fn ours(fluid: &Fluid, p: Property, t_c: f64) -> f64 {
     match p {
-        Property::Density => fluid.density_kg_m3(t_c),
-        Property::SpecificHeat => fluid.specific_heat_j_kg_k(t_c),
-        Property::Conductivity => fluid.conductivity_w_m_k(t_c),
+        Property::Density => fluid.density_kg_per_m3(t_c),
+        Property::SpecificHeat => fluid.specific_heat_j_per_kg_k(t_c),
+        Property::Conductivity => fluid.conductivity_w_per_m_k(t_c),
         Property::Viscosity => fluid.dynamic_viscosity_pa_s(t_c),
     }
 }
@@ -426,24 +426,24 @@ fn viscosity_rises_as_temperature_falls() {
 fn water_at_20c_has_handbook_density_and_specific_heat() {
     let water = Fluid::new(Mixture::Water, 0.0).unwrap();
     // IAPWS-95 at 20 °C, 101.325 kPa: 998.21 kg/m³ (from memory).
-    assert!((water.density_kg_m3(20.0) - 998.2).abs() < 0.05);
+    assert!((water.density_kg_per_m3(20.0) - 998.2).abs() < 0.05);
     // 4182 J/(kg K) as usually quoted at 20 °C (older calorimetry; IAPWS-95
     // gives 4184.4): within 0.1 %.
-    assert!((water.specific_heat_j_kg_k(20.0) / 4182.0 - 1.0).abs() < 1e-3);
+    assert!((water.specific_heat_j_per_kg_k(20.0) / 4182.0 - 1.0).abs() < 1e-3);
     // IAPWS 2008: 1.0016 mPa s; IAPWS 2011: 0.598 W/(m K) (from memory).
     assert!((water.dynamic_viscosity_pa_s(20.0) - 1.0016e-3).abs() < 2e-6);
-    assert!((water.conductivity_w_m_k(20.0) - 0.598).abs() < 0.002);
+    assert!((water.conductivity_w_per_m_k(20.0) - 0.598).abs() < 0.002);
 }
 
 #[test]
 fn glycols_are_denser_and_ethanol_lighter_than_water() {
-    let water = Fluid::new(Mixture::Water, 0.0).unwrap().density_kg_m3(20.0);
+    let water = Fluid::new(Mixture::Water, 0.0).unwrap().density_kg_per_m3(20.0);
     for (m, heavier) in [
         (Mixture::PropyleneGlycol, true),
         (Mixture::EthyleneGlycol, true),
         (Mixture::Ethanol, false),
     ] {
-        let rho = Fluid::new(m, 0.3).unwrap().density_kg_m3(20.0);
+        let rho = Fluid::new(m, 0.3).unwrap().density_kg_per_m3(20.0);
         assert_eq!(rho > water, heavier, "{m:?}: {rho} vs water {water}");
     }
 }
@@ -454,7 +454,7 @@ fn glycols_lower_specific_heat_and_all_additives_lower_conductivity() {
     for m in [Mixture::PropyleneGlycol, Mixture::EthyleneGlycol] {
         let f = Fluid::new(m, 0.3).unwrap();
         assert!(
-            f.specific_heat_j_kg_k(20.0) < water.specific_heat_j_kg_k(20.0),
+            f.specific_heat_j_per_kg_k(20.0) < water.specific_heat_j_per_kg_k(20.0),
             "{m:?}"
         );
     }
@@ -465,7 +465,7 @@ fn glycols_lower_specific_heat_and_all_additives_lower_conductivity() {
     ] {
         let f = Fluid::new(m, 0.3).unwrap();
         assert!(
-            f.conductivity_w_m_k(20.0) < water.conductivity_w_m_k(20.0),
+            f.conductivity_w_per_m_k(20.0) < water.conductivity_w_per_m_k(20.0),
             "{m:?}"
         );
     }
@@ -479,12 +479,12 @@ fn dilute_ethanol_has_a_higher_specific_heat_than_water() {
     for x in [0.1, 0.2, 0.3] {
         let f = Fluid::new(Mixture::Ethanol, x).unwrap();
         assert!(
-            f.specific_heat_j_kg_k(20.0) > water.specific_heat_j_kg_k(20.0),
+            f.specific_heat_j_per_kg_k(20.0) > water.specific_heat_j_per_kg_k(20.0),
             "x={x}"
         );
     }
     let strong = Fluid::new(Mixture::Ethanol, 0.4).unwrap();
-    assert!(strong.specific_heat_j_kg_k(20.0) < water.specific_heat_j_kg_k(20.0));
+    assert!(strong.specific_heat_j_per_kg_k(20.0) < water.specific_heat_j_per_kg_k(20.0));
 }
 
 // ---------------------------------------------------------------------------

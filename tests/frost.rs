@@ -286,7 +286,7 @@ fn stefan_depth_is_the_limit_of_neumann_without_sensible_heat() {
         c_frozen_j_m3k: 1.0,
         k_unfrozen_w_mk: 1.5,
         c_unfrozen_j_m3k: 2.0e6,
-        latent_j_m3: 1.0e8,
+        latent_j_per_m3: 1.0e8,
         initial_c: 0.0,
         surface_c: -10.0,
         freezing_point_c: 0.0,
@@ -340,7 +340,7 @@ fn neumann_root_matches_scipy_for_a_spread_of_soils() {
             c_frozen_j_m3k: r[1],
             k_unfrozen_w_mk: r[2],
             c_unfrozen_j_m3k: r[3],
-            latent_j_m3: r[4],
+            latent_j_per_m3: r[4],
             initial_c: r[5],
             surface_c: r[6],
             freezing_point_c: r[7],
@@ -371,7 +371,7 @@ fn neumann_depths_match_the_engine_reference_csv() {
         c_frozen_j_m3k: value("c_frozen_j_m3k"),
         k_unfrozen_w_mk: value("k_unfrozen_w_mk"),
         c_unfrozen_j_m3k: value("c_unfrozen_j_m3k"),
-        latent_j_m3: value("latent_j_m3"),
+        latent_j_per_m3: value("latent_j_m3"),
         initial_c: value("initial_c"),
         surface_c: value("surface_c"),
         freezing_point_c: -0.5 * interval,
@@ -398,7 +398,7 @@ fn neumann_field_meets_its_boundary_and_stefan_conditions() {
         c_frozen_j_m3k: 1.8e6,
         k_unfrozen_w_mk: 1.6,
         c_unfrozen_j_m3k: 2.6e6,
-        latent_j_m3: 1.2e8,
+        latent_j_per_m3: 1.2e8,
         initial_c: 8.0,
         surface_c: -5.0,
         freezing_point_c: 0.0,
@@ -503,7 +503,7 @@ fn modified_berggren_in_one_soil_is_lambda_times_stefan_and_equals_neumann() {
         k_unfrozen_w_mk: 1.4,
         c_frozen_j_m3k: 1.9e6,
         c_unfrozen_j_m3k: 2.5e6,
-        latent_j_m3: 1.0e8,
+        latent_j_per_m3: 1.0e8,
     };
     let s = season(900.0, 120.0, 4.0);
     let r = modified_berggren_depth(&[soil], &s).unwrap();
@@ -518,7 +518,7 @@ fn modified_berggren_in_one_soil_is_lambda_times_stefan_and_equals_neumann() {
         c_frozen_j_m3k: 2.2e6,
         k_unfrozen_w_mk: 1.7,
         c_unfrozen_j_m3k: 2.2e6,
-        latent_j_m3: 1.0e8,
+        latent_j_per_m3: 1.0e8,
         initial_c: 4.0,
         surface_c: -7.5,
         freezing_point_c: 0.0,
@@ -586,7 +586,7 @@ fn pipe() -> StagnantPipe {
         wall_resistance_m_k_per_w: 0.15,
         ground_resistance_m_k_per_w: 0.75,
         water_heat_capacity_j_m3k: 4.218e6,
-        water_latent_j_m3: 3.3348e8,
+        water_latent_j_per_m3: 3.3348e8,
         freezing_point_c: 0.0,
     }
 }
@@ -602,7 +602,7 @@ fn rk4_enthalpy(
 ) -> Vec<(f64, f64)> {
     let area = std::f64::consts::PI * 0.25 * p.inner_diameter_m.powi(2);
     let mc = p.water_heat_capacity_j_m3k * area;
-    let ml = p.water_latent_j_m3 * area;
+    let ml = p.water_latent_j_per_m3 * area;
     let r = p.wall_resistance_m_k_per_w + p.ground_resistance_m_k_per_w;
     let temp = |h: f64| if h > 0.0 { h / mc } else { 0.0 };
     let rate = |t: f64, h: f64| {
@@ -713,7 +713,7 @@ fn bleed_flow_keeps_the_outlet_at_the_limit_by_formula_and_by_marching_along_the
     // L = 400 m, R' = 1.2 m K/W, ρc = 4.2e6, T_in = 5, T_g = −3, T_min = 1 °C:
     // ln(8/4) = 0.693 147; Q = 400 / (4.2e6 · 1.2 · 0.693 147) = 400 / 3.493 461e6
     // = 1.144 996e-4 m³/s (0.11 l/s).
-    let q = bleed_flow_m3_s(5.0, -3.0, 1.0, 400.0, 4.2e6, 1.2).unwrap();
+    let q = bleed_flow_m3_per_s(5.0, -3.0, 1.0, 400.0, 4.2e6, 1.2).unwrap();
     assert!((q - 1.144_996e-4).abs() < 1e-9, "{q}");
     // Plugged into the outlet formula it gives exactly the limit.
     let out = outlet_temperature_c(5.0, -3.0, 400.0, q, 4.2e6, 1.2).unwrap();
@@ -730,7 +730,10 @@ fn bleed_flow_keeps_the_outlet_at_the_limit_by_formula_and_by_marching_along_the
     }
     assert!((t - 1.0).abs() < 1e-9, "{t}");
     // Ground warmer than the limit: no flow needed.
-    assert_eq!(bleed_flow_m3_s(5.0, 1.5, 1.0, 400.0, 4.2e6, 1.2).unwrap(), 0.0);
+    assert_eq!(
+        bleed_flow_m3_per_s(5.0, 1.5, 1.0, 400.0, 4.2e6, 1.2).unwrap(),
+        0.0
+    );
 }
 
 #[test]
@@ -782,7 +785,7 @@ fn bad_inputs_are_refused_with_a_message_not_a_panic() {
     let fit = fit_gumbel(&[400.0, 600.0], GumbelMethod::Moments).unwrap();
     assert!(fit.return_value_c_days(1.0).is_err());
     assert!(pipe().time_to_first_ice_s(-1.0, -5.0).is_err());
-    assert!(bleed_flow_m3_s(0.5, -3.0, 1.0, 100.0, 4.2e6, 1.0).is_err());
+    assert!(bleed_flow_m3_per_s(0.5, -3.0, 1.0, 100.0, 4.2e6, 1.0).is_err());
     let record = DailyRecord {
         first_year: 2021,
         first_month: 2,
@@ -795,7 +798,7 @@ fn bad_inputs_are_refused_with_a_message_not_a_panic() {
         c_frozen_j_m3k: 2e6,
         k_unfrozen_w_mk: 1.0,
         c_unfrozen_j_m3k: 2e6,
-        latent_j_m3: 1e8,
+        latent_j_per_m3: 1e8,
         initial_c: -1.0,
         surface_c: -5.0,
         freezing_point_c: 0.0,

@@ -28,9 +28,9 @@ fn options(cell_size_m: f64, steps_per_year: usize) -> ColumnOptions {
     }
 }
 
-fn run(layers: &[ColumnLayer], wave: &AnnualWave, q_w_m2: f64, opts: &ColumnOptions) -> PeriodicProfile {
+fn run(layers: &[ColumnLayer], wave: &AnnualWave, q_w_per_m2: f64, opts: &ColumnOptions) -> PeriodicProfile {
     let surface = |t: f64| wave.surface_c(t);
-    periodic_profile(layers, &surface, q_w_m2, opts).expect("periodic profile")
+    periodic_profile(layers, &surface, q_w_per_m2, opts).expect("periodic profile")
 }
 
 /// Linear interpolation of (mean, min, max) at `z_m` from `mean_min_max`.
@@ -369,7 +369,7 @@ fn freezing_column_conserves_energy() {
 fn latent_heat_makes_frost_penetration_shallower() {
     let wet = moist_silt(1.0);
     let dry = ColumnLayer {
-        latent_heat_j_m3: 0.0,
+        latent_heat_j_per_m3: 0.0,
         ..wet
     };
     let opts = options(0.02, 1460);
@@ -464,7 +464,7 @@ fn frost_depth_of_a_cold_step_follows_neumanns_solution() {
         frozen_conductivity: p("k_frozen_w_mk"),
         heat_capacity: p("c_unfrozen_j_m3k"),
         frozen_heat_capacity: p("c_frozen_j_m3k"),
-        latent_heat_j_m3: p("latent_j_m3"),
+        latent_heat_j_per_m3: p("latent_j_m3"),
         freezing_interval_k: p("freezing_interval_k"),
     };
     let hours = 60 * 24;

@@ -322,8 +322,8 @@ fn a_twin_pipe_agrees_with_the_engine() {
         centre: Position::new(0.0, 0.8),
         casing_outer_radius_m: 0.14,
         casing_thickness_m: 0.004,
-        casing_conductivity_w_m_k: K,
-        insulation_conductivity_w_m_k: 0.026,
+        casing_conductivity_w_per_m_k: K,
+        insulation_conductivity_w_per_m_k: 0.026,
         carrier_outer_radius_m: 0.04445,
         carrier_spacing_m: 0.12,
         carrier_wall_resistance_m_k_per_w: (0.04445_f64 / 0.04125).ln() / (2.0 * PI * 50.0),
@@ -422,7 +422,7 @@ fn insulation_conductivity_follows_its_mean_temperature_and_ageing() {
         "{} vs {q}",
         p.heat_loss_w_per_m
     );
-    assert!((p.insulation_conductivity_w_m_k.unwrap() - lambda).abs() < 1e-8);
+    assert!((p.insulation_conductivity_w_per_m_k.unwrap() - lambda).abs() < 1e-8);
     assert!((p.insulation_mean_temperature_c.unwrap() - mean).abs() < 1e-4);
     // The mean insulation temperature (~45 °C) lies below 50 °C, so λ is below the aged λ50.
     assert!(
@@ -444,7 +444,7 @@ fn a_twin_pipes_insulation_law_is_consistent_with_its_mean_temperature() {
     let t = heat_loss(&r).twin.as_ref().unwrap().clone();
     let mean = t.insulation_mean_temperature_c.unwrap();
     let expected = 0.024 * 1.2 + 0.0001 * (mean - 50.0);
-    assert!((t.insulation_conductivity_w_m_k - expected).abs() < 1e-8);
+    assert!((t.insulation_conductivity_w_per_m_k - expected).abs() < 1e-8);
     // Carriers at 80 and 45 °C (mean 62.5) less a little steel drop; casing near the ground.
     assert!(mean > T_G && mean < 62.5, "{mean}");
     let (qs, qr) = twin_by_hand(expected, 0.4, K);
@@ -474,7 +474,7 @@ studies:
         r.warnings
     );
     // The analytic method uses the layer at the pipe centre.
-    assert_eq!(heat_loss(&r).soil_conductivity_w_m_k, K);
+    assert_eq!(heat_loss(&r).soil_conductivity_w_per_m_k, K);
     let r = run(&layered(1.5));
     assert!(!r.warnings.iter().any(|w| w.code == "heat_loss.layered_ground"));
 }

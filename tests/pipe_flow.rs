@@ -25,7 +25,7 @@ fn laminar_loop_pressure_drop_equals_hagen_poiseuille() {
     let f = darcy_friction_factor(flow.reynolds, 0.0, TurbulentFriction::Colebrook).unwrap();
     let ours = loop_pressure_drop_pa(&flow, f, length, 0.0).unwrap();
     let mu = fluid.dynamic_viscosity_pa_s(t_c);
-    let volume_flow = mass_flow / fluid.density_kg_m3(t_c);
+    let volume_flow = mass_flow / fluid.density_kg_per_m3(t_c);
     let hagen_poiseuille = 128.0 * mu * length * volume_flow / (PI * d.powi(4));
     assert!(
         rel(ours, hagen_poiseuille) < 1e-12,
@@ -230,7 +230,7 @@ fn laminar_film_resistance_does_not_depend_on_diameter() {
     // (consequence of a constant Nusselt number; Shah & London 1978).
     let fluid = Fluid::new(Mixture::EthyleneGlycol, 0.25).unwrap();
     let t_c = -2.0;
-    let k = fluid.conductivity_w_m_k(t_c);
+    let k = fluid.conductivity_w_per_m_k(t_c);
     let expected = 1.0 / (PI * nusselt_laminar(LaminarWall::UniformTemperature) * k);
     for d in [0.02, 0.0262, 0.04] {
         let flow = tube_flow(&fluid, t_c, 0.02, d).unwrap();

@@ -32,13 +32,13 @@ fn run(solver: SolverKind, grid: GridOptions, dt: f64, steps: usize, radial_only
     let depth = if radial_only { 100.5 } else { 150.0 };
     let mut model = uniform_soil(Geometry::Axisymmetric, 40.0, depth, k, c, T0);
     if radial_only {
-        model.surface_resistance_m2_k_w = 1e9;
+        model.surface_resistance_m2_k_per_w = 1e9;
     }
     model.borehole = Some(Borehole {
         radius_m: r_b,
         top_m: 0.0,
         bottom_m: 100.0,
-        wall_resistance_m_k_w: 0.1,
+        wall_resistance_m_k_per_w: 0.1,
         drive: Drive::HeatRate(Box::new(move |_| q)),
     });
     let mut opts = TransientOptions::new(dt, steps, Initial::Uniform(T0));

@@ -31,20 +31,20 @@ fn model() -> SectionModel {
         }],
         Box::new(move |t| wave.surface_c(t)),
     );
-    m.surface_resistance_m2_k_w = 0.05;
-    m.bottom_flux_w_m2 = 0.06;
+    m.surface_resistance_m2_k_per_w = 0.05;
+    m.bottom_flux_w_per_m2 = 0.06;
     m.pipes.push(Pipe {
         x_m: -1.0,
         z_m: 1.0,
         outer_radius_m: 0.1,
-        wall_resistance_m_k_w: 0.8,
+        wall_resistance_m_k_per_w: 0.8,
         drive: Drive::FluidTemperature(Box::new(|t| 50.0 + 10.0 * (t / (5.0 * DAY)).sin())),
     });
     m.pipes.push(Pipe {
         x_m: 2.0,
         z_m: 1.5,
         outer_radius_m: 0.02,
-        wall_resistance_m_k_w: 0.1,
+        wall_resistance_m_k_per_w: 0.1,
         drive: Drive::HeatRate(Box::new(|_| -15.0)),
     });
     m

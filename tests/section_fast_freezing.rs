@@ -29,12 +29,12 @@ fn model(fluid_c: f64) -> SectionModel {
         }],
         Box::new(move |t| wave.surface_c(t)),
     );
-    m.surface_resistance_m2_k_w = 0.05;
+    m.surface_resistance_m2_k_per_w = 0.05;
     m.pipes.push(Pipe {
         x_m: 0.0,
         z_m: 1.0,
         outer_radius_m: 0.1,
-        wall_resistance_m_k_w: 0.3,
+        wall_resistance_m_k_per_w: 0.3,
         drive: Drive::FluidTemperature(Box::new(move |_| fluid_c)),
     });
     m

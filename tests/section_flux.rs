@@ -19,7 +19,7 @@ fn solve() -> Snapshot {
         x_m: 0.0,
         z_m: H,
         outer_radius_m: R,
-        wall_resistance_m_k_w: 0.0,
+        wall_resistance_m_k_per_w: 0.0,
         drive: Drive::FluidTemperature(Box::new(|_| PIPE_C)),
     });
     solve_steady(&m, &GridOptions::default(), 0.0).unwrap().field
@@ -56,7 +56,7 @@ fn heat_flux_around_a_warm_pipe_matches_the_cylinder_closed_form() {
     for (x, z) in [(0.0, 0.5), (0.0, 0.3), (0.4, 1.0), (0.0, 1.6), (0.5, 0.6)] {
         let c = cell_at(&s, x, z);
         let (xc, zc) = (s.x_m[c % nx], s.z_m[c / nx]);
-        let (qx, qz) = (s.q_x_w_m2[c], s.q_z_w_m2[c]);
+        let (qx, qz) = (s.q_x_w_per_m2[c], s.q_z_w_per_m2[c]);
         let (ex, ez) = closed_form_flux(xc, zc);
         let (m, em) = (qx.hypot(qz), ex.hypot(ez));
         let angle = (qx * ez - qz * ex).atan2(qx * ex + qz * ez).abs();
@@ -97,20 +97,20 @@ fn heat_flux_arrows_point_up_above_a_warm_pipe_and_down_below_it() {
         "above ({}, {}) q = ({}, {}); below q = ({}, {}); beside q = ({}, {})",
         arrows.x_m[above],
         arrows.z_m[above],
-        arrows.qx_w_m2[above],
-        arrows.qz_w_m2[above],
-        arrows.qx_w_m2[below],
-        arrows.qz_w_m2[below],
-        arrows.qx_w_m2[beside],
-        arrows.qz_w_m2[beside]
+        arrows.qx_w_per_m2[above],
+        arrows.qz_w_per_m2[above],
+        arrows.qx_w_per_m2[below],
+        arrows.qz_w_per_m2[below],
+        arrows.qx_w_per_m2[beside],
+        arrows.qz_w_per_m2[beside]
     );
     assert!(arrows.z_m[above] < H - R && arrows.x_m[above].abs() < 0.05);
     // Up (negative down-component) and mostly vertical above the pipe, towards the cold surface.
-    assert!(arrows.qz_w_m2[above] < 0.0);
-    assert!(arrows.qx_w_m2[above].abs() < 0.2 * arrows.qz_w_m2[above].abs());
+    assert!(arrows.qz_w_per_m2[above] < 0.0);
+    assert!(arrows.qx_w_per_m2[above].abs() < 0.2 * arrows.qz_w_per_m2[above].abs());
     // Away from the pipe below it and beside it.
-    assert!(arrows.qz_w_m2[below] > 0.0);
-    assert!(arrows.qx_w_m2[beside] > 0.0);
+    assert!(arrows.qz_w_per_m2[below] > 0.0);
+    assert!(arrows.qx_w_per_m2[beside] > 0.0);
     // Nothing is drawn from inside the pipe.
     assert!((0..arrows.x_m.len()).all(|i| arrows.x_m[i].hypot(arrows.z_m[i] - H) >= R));
 }

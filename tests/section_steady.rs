@@ -5,7 +5,7 @@ mod common;
 use std::f64::consts::PI;
 
 use burrow::engine::section::{
-    Drive, Geometry, GridOptions, Pipe, SectionModel, solve_steady, wall_resistance_m_k_w,
+    Drive, Geometry, GridOptions, Pipe, SectionModel, solve_steady, wall_resistance_m_k_per_w,
 };
 use common::{buried_cylinder_resistance, image_sum, uniform_soil};
 
@@ -18,7 +18,7 @@ fn pipe(x: f64, z: f64, r: f64, wall: f64, fluid_c: f64) -> Pipe {
         x_m: x,
         z_m: z,
         outer_radius_m: r,
-        wall_resistance_m_k_w: wall,
+        wall_resistance_m_k_per_w: wall,
         drive: Drive::FluidTemperature(Box::new(move |_| fluid_c)),
     }
 }
@@ -102,7 +102,7 @@ fn insulated_pipe_matches_series_of_wall_layers_and_ground() {
     // layers: Carslaw & Jaeger 1959 §7.2). Steel 3.6 mm, PUR 50 mm, PE casing 3.4 mm.
     let r_in = 0.1143 / 2.0 - 0.0036;
     let layers = [(0.0036, 50.0), (0.05, 0.026), (0.0034, 0.43)];
-    let r_wall = wall_resistance_m_k_w(r_in, &layers).unwrap();
+    let r_wall = wall_resistance_m_k_per_w(r_in, &layers).unwrap();
     let r_out = r_in + 0.0036 + 0.05 + 0.0034;
     let (h, dt) = (0.9, 70.0);
     let s = solve_steady(
@@ -134,7 +134,7 @@ fn heat_rate_driven_pipe_reaches_the_fluid_temperature_of_the_series_resistance(
         x_m: 0.0,
         z_m: h,
         outer_radius_m: r,
-        wall_resistance_m_k_w: r_wall,
+        wall_resistance_m_k_per_w: r_wall,
         drive: Drive::HeatRate(Box::new(move |_| q)),
     });
     let s = solve_steady(&m, &GridOptions::default(), 0.0).unwrap();

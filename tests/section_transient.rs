@@ -247,7 +247,7 @@ fn insulation_board_and_layers_carry_the_bottom_flux_in_series() {
         ],
         Box::new(|_| 2.0),
     );
-    model.bottom_flux_w_m2 = q;
+    model.bottom_flux_w_per_m2 = q;
     model.inclusions.push(Inclusion {
         x_min_m: -1.0,
         x_max_m: 1.0,

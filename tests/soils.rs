@@ -7,10 +7,10 @@
 //! formulas by hand, not taken from the module.
 
 use burrow::materials::soils::{
-    ICE_HEAT_CAPACITY_J_M3_K, KerstenSoil, MINERAL_HEAT_CAPACITY_J_M3_K, SoilComposition, Texture,
-    WATER_HEAT_CAPACITY_J_M3_K, WaterPhase, composition_heat_capacity_j_m3_k,
-    ice_fraction_from_water_content, johansen_conductivity, johansen_dry_conductivity_w_m_k,
-    kersten_conductivity, kersten_number, latent_heat_j_m3, preset, preset_names, presets,
+    ICE_HEAT_CAPACITY_J_PER_M3_K, KerstenSoil, MINERAL_HEAT_CAPACITY_J_PER_M3_K, SoilComposition, Texture,
+    WATER_HEAT_CAPACITY_J_PER_M3_K, WaterPhase, composition_heat_capacity_j_per_m3_k,
+    ice_fraction_from_water_content, johansen_conductivity, johansen_dry_conductivity_w_per_m_k,
+    kersten_conductivity, kersten_number, latent_heat_j_per_m3, preset, preset_names, presets,
     volumetric_heat_capacity,
 };
 
@@ -60,7 +60,7 @@ fn johansen_frozen_at_full_saturation_is_the_geometric_mean_of_solids_and_ice() 
 fn johansen_dry_soil_uses_the_dry_density_formula() {
     // Sr = 0 → Ke = 0 → k = (0.135 ρd + 64.7)/(2700 − 0.947 ρd).
     // Hand value for ρd = 1600 kg/m³: 280.7 / 1184.8 = 0.2369 W/(m K).
-    assert!((johansen_dry_conductivity_w_m_k(1600.0) - 0.2369).abs() < 1e-4);
+    assert!((johansen_dry_conductivity_w_per_m_k(1600.0) - 0.2369).abs() < 1e-4);
     let soil = SoilComposition::mineral(Texture::Coarse, 0.4, 0.0, 0.6, 2650.0).unwrap();
     let rho_d = 0.6 * 2650.0;
     let expected = (0.135 * rho_d + 64.7) / (2700.0 - 0.947 * rho_d);
@@ -111,7 +111,11 @@ fn saturated_soils_conduct_better_frozen_than_unfrozen() {
         }
     }
     for p in presets().iter().filter(|p| p.composition.saturation() >= 0.8) {
-        assert!(p.frozen_conductivity_w_m_k > p.conductivity_w_m_k, "{}", p.name);
+        assert!(
+            p.frozen_conductivity_w_per_m_k > p.conductivity_w_per_m_k,
+            "{}",
+            p.name
+        );
     }
 }
 
@@ -165,7 +169,7 @@ fn kersten_and_johansen_agree_for_a_moist_sand() {
     assert!((soil.moisture_content_percent() - 10.0).abs() < 1e-9);
     for phase in [WaterPhase::Unfrozen, WaterPhase::Frozen] {
         let j = johansen_conductivity(&soil, phase);
-        let k = kersten_conductivity(KerstenSoil::Sandy, phase, soil.dry_density_kg_m3(), 10.0).unwrap();
+        let k = kersten_conductivity(KerstenSoil::Sandy, phase, soil.dry_density_kg_per_m3(), 10.0).unwrap();
         println!("moist sand {phase:?}: Johansen {j:.3}, Kersten {k:.3} W/(m K)");
         assert!(rel(j, k) < KERSTEN_JOHANSEN_BAND, "{phase:?}: {j} vs {k}");
     }
@@ -198,20 +202,20 @@ fn kersten_refuses_moisture_below_its_fitted_range() {
 #[test]
 fn latent_heat_is_333_55_mj_per_m3_of_water() {
     // 1 m³ of water × 1000 kg/m³ × 333.55 kJ/kg.
-    assert!((latent_heat_j_m3(1.0) - 333.55e6).abs() < 1e-3);
-    assert!((latent_heat_j_m3(0.25) - 0.25 * 333.55e6).abs() < 1e-3);
-    assert_eq!(latent_heat_j_m3(0.0), 0.0);
+    assert!((latent_heat_j_per_m3(1.0) - 333.55e6).abs() < 1e-3);
+    assert!((latent_heat_j_per_m3(0.25) - 0.25 * 333.55e6).abs() < 1e-3);
+    assert_eq!(latent_heat_j_per_m3(0.0), 0.0);
 }
 
 #[test]
 fn heat_capacity_is_the_volume_weighted_sum_of_constituents() {
     // de Vries (1963): minerals 0.48, water 1.00, in cal/(cm³ K); 1 cal = 4.1855 J.
-    assert!((MINERAL_HEAT_CAPACITY_J_M3_K - 2.009e6).abs() < 1e3);
-    assert!((WATER_HEAT_CAPACITY_J_M3_K - 4.1855e6).abs() < 1e3);
+    assert!((MINERAL_HEAT_CAPACITY_J_PER_M3_K - 2.009e6).abs() < 1e3);
+    assert!((WATER_HEAT_CAPACITY_J_PER_M3_K - 4.1855e6).abs() < 1e3);
     // Ice: 916.7 kg/m³ × 2097 J/(kg K) ≈ 1.92e6 J/(m³ K).
-    assert!((ICE_HEAT_CAPACITY_J_M3_K - 1.922e6).abs() < 1e3);
+    assert!((ICE_HEAT_CAPACITY_J_PER_M3_K - 1.922e6).abs() < 1e3);
     // Saturated sand, n = 0.4: 0.6·2.009e6 + 0.4·4.1855e6 = 2.880e6.
-    let c = volumetric_heat_capacity(0.6, MINERAL_HEAT_CAPACITY_J_M3_K, 0.4, 0.0).unwrap();
+    let c = volumetric_heat_capacity(0.6, MINERAL_HEAT_CAPACITY_J_PER_M3_K, 0.4, 0.0).unwrap();
     assert!((c - (0.6 * 0.48 + 0.4 * 1.0) * 4.1855e6).abs() < 1.0);
 }
 
@@ -219,8 +223,8 @@ fn heat_capacity_is_the_volume_weighted_sum_of_constituents() {
 fn frozen_soil_stores_less_sensible_heat_than_unfrozen() {
     // Per kg, ice (2.1 kJ/(kg K)) holds half the heat of water (4.2).
     let soil = SoilComposition::mineral(Texture::Coarse, 0.4, 1.0, 0.6, 2650.0).unwrap();
-    let unfrozen = composition_heat_capacity_j_m3_k(&soil, WaterPhase::Unfrozen);
-    let frozen = composition_heat_capacity_j_m3_k(&soil, WaterPhase::Frozen);
+    let unfrozen = composition_heat_capacity_j_per_m3_k(&soil, WaterPhase::Unfrozen);
+    let frozen = composition_heat_capacity_j_per_m3_k(&soil, WaterPhase::Frozen);
     assert!(frozen < unfrozen);
     // Ice takes 9 % more volume than the water it came from.
     assert!((ice_fraction_from_water_content(0.4) / 0.4 - 1000.0 / 916.7).abs() < 1e-12);
@@ -232,9 +236,9 @@ fn heat_capacity_rejects_fractions_over_the_whole_volume() {
     // A saturated soil frozen solid: ice fills 109 % of the former pore
     // water volume and is still accepted, and matches the composition path.
     let ice = ice_fraction_from_water_content(0.4);
-    let c = volumetric_heat_capacity(0.6, MINERAL_HEAT_CAPACITY_J_M3_K, 0.0, ice).unwrap();
+    let c = volumetric_heat_capacity(0.6, MINERAL_HEAT_CAPACITY_J_PER_M3_K, 0.0, ice).unwrap();
     let soil = SoilComposition::mineral(Texture::Coarse, 0.4, 1.0, 0.6, 2650.0).unwrap();
-    assert!(rel(c, composition_heat_capacity_j_m3_k(&soil, WaterPhase::Frozen)) < 1e-12);
+    assert!(rel(c, composition_heat_capacity_j_per_m3_k(&soil, WaterPhase::Frozen)) < 1e-12);
     assert!(volumetric_heat_capacity(-0.1, 2.0e6, 0.4, 0.0).is_err());
     assert!(volumetric_heat_capacity(0.6, -2.0e6, 0.4, 0.0).is_err());
 }
@@ -264,22 +268,22 @@ fn every_preset_is_built_and_found_by_name() {
 #[test]
 fn each_preset_conductivity_lies_in_its_published_range() {
     for p in presets() {
-        let (lo, hi) = p.conductivity_range_w_m_k;
+        let (lo, hi) = p.conductivity_range_w_per_m_k;
         println!(
             "{:<17} k {:.2} (range {lo}–{hi}, {}), frozen {:.2} W/(m K); C {:.2}/{:.2} MJ/(m³ K); θ {:.3}",
             p.name,
-            p.conductivity_w_m_k,
+            p.conductivity_w_per_m_k,
             p.source,
-            p.frozen_conductivity_w_m_k,
-            p.heat_capacity_j_m3_k / 1e6,
-            p.frozen_heat_capacity_j_m3_k / 1e6,
+            p.frozen_conductivity_w_per_m_k,
+            p.heat_capacity_j_per_m3_k / 1e6,
+            p.frozen_heat_capacity_j_per_m3_k / 1e6,
             p.water_content
         );
         assert!(
-            p.conductivity_w_m_k >= lo && p.conductivity_w_m_k <= hi,
+            p.conductivity_w_per_m_k >= lo && p.conductivity_w_per_m_k <= hi,
             "{}: {} outside {lo}–{hi}",
             p.name,
-            p.conductivity_w_m_k
+            p.conductivity_w_per_m_k
         );
     }
 }
@@ -289,20 +293,20 @@ fn preset_values_follow_from_their_stated_composition() {
     for p in presets() {
         let c = &p.composition;
         assert_eq!(
-            p.conductivity_w_m_k,
+            p.conductivity_w_per_m_k,
             johansen_conductivity(c, WaterPhase::Unfrozen)
         );
         assert_eq!(
-            p.frozen_conductivity_w_m_k,
+            p.frozen_conductivity_w_per_m_k,
             johansen_conductivity(c, WaterPhase::Frozen)
         );
         assert!((p.water_content - c.porosity() * c.saturation()).abs() < 1e-15);
-        let expected_c = (1.0 - c.porosity()) * c.solids_heat_capacity_j_m3_k()
-            + p.water_content * WATER_HEAT_CAPACITY_J_M3_K;
-        assert!(rel(p.heat_capacity_j_m3_k, expected_c) < 1e-12, "{}", p.name);
+        let expected_c = (1.0 - c.porosity()) * c.solids_heat_capacity_j_per_m3_k()
+            + p.water_content * WATER_HEAT_CAPACITY_J_PER_M3_K;
+        assert!(rel(p.heat_capacity_j_per_m3_k, expected_c) < 1e-12, "{}", p.name);
         // Typical soils hold 1.2–3.5 MJ/(m³ K) (de Vries 1963, from memory).
         assert!(
-            p.heat_capacity_j_m3_k > 1.0e6 && p.heat_capacity_j_m3_k < 4.2e6,
+            p.heat_capacity_j_per_m3_k > 1.0e6 && p.heat_capacity_j_per_m3_k < 4.2e6,
             "{}",
             p.name
         );
@@ -313,6 +317,6 @@ fn preset_values_follow_from_their_stated_composition() {
 fn crystalline_rock_barely_changes_when_frozen() {
     // 1 % porosity: ice vs water changes k by (2.2/0.57)^0.01 − 1 ≈ 1.4 %.
     let rock = preset("crystalline-rock").unwrap();
-    let ratio = rock.frozen_conductivity_w_m_k / rock.conductivity_w_m_k;
+    let ratio = rock.frozen_conductivity_w_per_m_k / rock.conductivity_w_per_m_k;
     assert!((ratio - (2.2_f64 / 0.57).powf(0.01)).abs() < 1e-12);
 }

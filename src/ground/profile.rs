@@ -44,7 +44,7 @@ enum Field {
     /// Homogeneous dry soil: the wave of Carslaw & Jaeger §2.6 plus the geothermal gradient.
     Wave {
         wave: AnnualWave,
-        diffusivity_m2_s: f64,
+        diffusivity_m2_per_s: f64,
         gradient_k_per_m: f64,
     },
     /// A surface held at one temperature: steady conduction of the geothermal flux.
@@ -87,14 +87,18 @@ pub fn undisturbed(site: &Site, depth_m: f64) -> Result<Undisturbed, String> {
                 coldest_day: t_min_s / DAY_S + 1.0,
                 period_s: YEAR_S,
             },
-            diffusivity_m2_s: first.conductivity_w_m_k / first.heat_capacity_j_m3_k,
-            gradient_k_per_m: ground.geothermal_flux_w_m2 / first.conductivity_w_m_k,
+            diffusivity_m2_per_s: first.conductivity_w_per_m_k / first.heat_capacity_j_per_m3_k,
+            gradient_k_per_m: ground.geothermal_flux_w_per_m2 / first.conductivity_w_per_m_k,
         },
         _ => {
             let layers: Vec<ColumnLayer> = ground.layers.iter().map(column_layer).collect();
             let f = |t: f64| surface.surface_c(t);
-            let profile =
-                column::periodic_profile(&layers, &f, ground.geothermal_flux_w_m2, &column_options(depth_m))?;
+            let profile = column::periodic_profile(
+                &layers,
+                &f,
+                ground.geothermal_flux_w_per_m2,
+                &column_options(depth_m),
+            )?;
             Field::Numerical(profile)
         }
     };
@@ -118,11 +122,11 @@ pub fn undisturbed(site: &Site, depth_m: f64) -> Result<Undisturbed, String> {
 pub fn column_layer(l: &crate::model::SoilLayer) -> ColumnLayer {
     ColumnLayer {
         thickness_m: l.thickness_m.unwrap_or(f64::INFINITY),
-        conductivity: l.conductivity_w_m_k,
-        frozen_conductivity: l.frozen_conductivity_w_m_k,
-        heat_capacity: l.heat_capacity_j_m3_k,
-        frozen_heat_capacity: l.frozen_heat_capacity_j_m3_k,
-        latent_heat_j_m3: l.latent_heat_j_m3,
+        conductivity: l.conductivity_w_per_m_k,
+        frozen_conductivity: l.frozen_conductivity_w_per_m_k,
+        heat_capacity: l.heat_capacity_j_per_m3_k,
+        frozen_heat_capacity: l.frozen_heat_capacity_j_per_m3_k,
+        latent_heat_j_per_m3: l.latent_heat_j_per_m3,
         freezing_interval_k: l.freezing_interval_k,
     }
 }
@@ -133,9 +137,9 @@ impl Undisturbed {
         match &self.field {
             Field::Wave {
                 wave,
-                diffusivity_m2_s,
+                diffusivity_m2_per_s,
                 gradient_k_per_m,
-            } => wave.ground_c(z_m, t_s, *diffusivity_m2_s, *gradient_k_per_m),
+            } => wave.ground_c(z_m, t_s, *diffusivity_m2_per_s, *gradient_k_per_m),
             Field::Steady { surface_c, ground } => surface_c + geothermal_rise_k(ground, z_m),
             Field::Numerical(p) => p.at(z_m, t_s),
         }
@@ -163,9 +167,9 @@ impl Undisturbed {
         match &self.field {
             Field::Wave {
                 wave,
-                diffusivity_m2_s,
+                diffusivity_m2_per_s,
                 gradient_k_per_m,
-            } => wave.envelope(z_m, *diffusivity_m2_s, *gradient_k_per_m),
+            } => wave.envelope(z_m, *diffusivity_m2_per_s, *gradient_k_per_m),
             Field::Steady { .. } => {
                 let t = self.at(z_m, 0.0);
                 (t, t, t)
@@ -229,7 +233,7 @@ pub fn geothermal_rise_k(ground: &Ground, z_m: f64) -> f64 {
     for l in &ground.layers {
         let bottom = top + l.thickness_m.unwrap_or(f64::INFINITY);
         let within = (z_m.min(bottom) - top).max(0.0);
-        rise += ground.geothermal_flux_w_m2 * within / l.conductivity_w_m_k;
+        rise += ground.geothermal_flux_w_per_m2 * within / l.conductivity_w_per_m_k;
         top = bottom;
         if top >= z_m {
             break;

@@ -165,9 +165,9 @@ pub fn section(h: &mut String, b: &BorefieldResult) {
         "Ground conductivity; diffusivity; undisturbed temperature",
         format!(
             "{:.2} W/(m K) ({}); {:.2e} m²/s; {:.2} °C",
-            b.ground.conductivity_w_m_k,
+            b.ground.conductivity_w_per_m_k,
             esc(&b.ground.conductivity_source),
-            b.ground.diffusivity_m2_s,
+            b.ground.diffusivity_m2_per_s,
             b.ground.undisturbed_c
         ),
     );

@@ -26,7 +26,7 @@ pub fn figures(s: &StudyResult, c: &CrossSectionResult) -> Result<Vec<Figure>, S
         let arrows = ArrowLayer {
             arrows: c.flux.get(i).map_or_else(Vec::new, |a| {
                 (0..a.x_m.len())
-                    .map(|j| (a.x_m[j], a.z_m[j], a.qx_w_m2[j], a.qz_w_m2[j]))
+                    .map(|j| (a.x_m[j], a.z_m[j], a.qx_w_per_m2[j], a.qz_w_per_m2[j]))
                     .collect()
             }),
             unit: "W/m²".into(),

@@ -236,7 +236,7 @@ pub fn section(h: &mut String, f: &FrostResult) {
             h,
             "<tr><td>Insulation board {:.0} mm, {:.3} W/(m K), {:.2} m above the crown: narrowest width keeping the crown above 0 °C (engine, no heat from the water)</td><td class=\"n\">{}</td></tr>\n",
             b.thickness_m * 1000.0,
-            b.conductivity_w_m_k,
+            b.conductivity_w_per_m_k,
             b.gap_m,
             text
         );

@@ -153,7 +153,7 @@ pub fn section(h_out: &mut String, h: &HeatLossResult) {
     let _ = write!(
         h_out,
         "<p>Method: steady conduction month by month — each pipe a line source with its image above the surface (Kelvin; Carslaw &amp; Jaeger §10.10), the exact cylinder ground resistance acosh(H′/r)/(2πk), the surface resistance R0 = {} m² K/W as an added depth H′ = H + k·R0 (EN 13941-1 practice), wall layers as coaxial cylinders, the pair coupled through the mutual resistance (EN 13941-1; Wallentén 1991). Soil conductivity {:.2} W/(m K), the layer at the pipes.</p>\n",
-        h.surface_resistance_m2_k_per_w, h.soil_conductivity_w_m_k
+        h.surface_resistance_m2_k_per_w, h.soil_conductivity_w_per_m_k
     );
     let _ = write!(
         h_out,
@@ -180,13 +180,13 @@ pub fn section(h_out: &mut String, h: &HeatLossResult) {
     for p in h
         .pipes
         .iter()
-        .filter(|p| p.insulation_conductivity_w_m_k.is_some())
+        .filter(|p| p.insulation_conductivity_w_per_m_k.is_some())
     {
         let _ = write!(
             h_out,
             "<p>Insulation of <b>{}</b> by EN 253 practice (aged λ50 and its slope): {:.4} W/(m K) at its mean temperature {:.1} °C (annual means).</p>\n",
             esc(&p.id),
-            p.insulation_conductivity_w_m_k.unwrap_or(f64::NAN),
+            p.insulation_conductivity_w_per_m_k.unwrap_or(f64::NAN),
             p.insulation_mean_temperature_c.unwrap_or(f64::NAN)
         );
     }
@@ -295,7 +295,7 @@ fn twin_section(h_out: &mut String, t: &crate::results::TwinResult) {
         t.h_s,
         t.antisymmetric_resistance_m_k_per_w,
         t.h_a,
-        t.insulation_conductivity_w_m_k,
+        t.insulation_conductivity_w_per_m_k,
         t.insulation_mean_temperature_c
             .map(|m| format!(" at its mean temperature {m:.1} °C (EN 253 law)"))
             .unwrap_or_default(),

@@ -319,7 +319,7 @@ fn inputs(h: &mut String, site: &Site) {
         h,
         "<h3>Ground</h3>\n<p>Geothermal heat flux {}; initial temperature {}.</p>\n<table>\n<tr><th>layer</th><th class=\"n\">top</th><th class=\"n\">thickness</th><th class=\"n\">conductivity<br>unfrozen / frozen</th><th class=\"n\">heat capacity<br>unfrozen / frozen</th><th class=\"n\">water content</th><th class=\"n\">latent heat</th></tr>\n",
         esc(&format_quantity(
-            site.ground.geothermal_flux_w_m2,
+            site.ground.geothermal_flux_w_per_m2,
             Dimension::HeatFlux
         )),
         match site.ground.initial_temperature_c {
@@ -340,12 +340,12 @@ fn inputs(h: &mut String, site: &Site) {
             l.thickness_m
                 .map(|t| format!("{t:.2} m"))
                 .unwrap_or_else(|| "to the bottom".into()),
-            l.conductivity_w_m_k,
-            l.frozen_conductivity_w_m_k,
-            l.heat_capacity_j_m3_k / 1e6,
-            l.frozen_heat_capacity_j_m3_k / 1e6,
+            l.conductivity_w_per_m_k,
+            l.frozen_conductivity_w_per_m_k,
+            l.heat_capacity_j_per_m3_k / 1e6,
+            l.frozen_heat_capacity_j_per_m3_k / 1e6,
             l.water_content * 100.0,
-            l.latent_heat_j_m3 / 1e6
+            l.latent_heat_j_per_m3 / 1e6
         );
     }
     let _ = write!(h, "</table>\n");

@@ -304,7 +304,7 @@ fn ground(doc: &GroundDoc, path: &KeyPath, v: &mut Validator) -> Option<Ground> 
     let layers: Option<Vec<SoilLayer>> = layers.into_iter().collect();
     Some(Ground {
         initial_temperature_c: init?,
-        geothermal_flux_w_m2: flux?.unwrap_or(0.0),
+        geothermal_flux_w_per_m2: flux?.unwrap_or(0.0),
         layers: layers?,
     })
 }
@@ -343,7 +343,7 @@ fn layer(doc: &LayerDoc, last: bool, path: &KeyPath, v: &mut Validator) -> Optio
     let k = property(
         v,
         &doc.conductivity,
-        preset.map(|p| p.conductivity_w_m_k),
+        preset.map(|p| p.conductivity_w_per_m_k),
         path,
         "conductivity",
         "the thermal conductivity",
@@ -351,18 +351,18 @@ fn layer(doc: &LayerDoc, last: bool, path: &KeyPath, v: &mut Validator) -> Optio
     let c = property(
         v,
         &doc.heat_capacity,
-        preset.map(|p| p.heat_capacity_j_m3_k),
+        preset.map(|p| p.heat_capacity_j_per_m3_k),
         path,
         "heat_capacity",
         "the volumetric heat capacity",
     );
     let k_f = match &doc.frozen_conductivity {
         Some(q) => v.positive_q(q, &path.key("frozen_conductivity"), "the frozen conductivity"),
-        None => preset.map(|p| p.frozen_conductivity_w_m_k).or(k),
+        None => preset.map(|p| p.frozen_conductivity_w_per_m_k).or(k),
     };
     let c_f = match &doc.frozen_heat_capacity {
         Some(q) => v.positive_q(q, &path.key("frozen_heat_capacity"), "the frozen heat capacity"),
-        None => preset.map(|p| p.frozen_heat_capacity_j_m3_k).or(c),
+        None => preset.map(|p| p.frozen_heat_capacity_j_per_m3_k).or(c),
     };
     let w = match &doc.water_content {
         Some(q) => {
@@ -414,12 +414,12 @@ fn layer(doc: &LayerDoc, last: bool, path: &KeyPath, v: &mut Validator) -> Optio
     Some(SoilLayer {
         name: doc.name.clone(),
         thickness_m: thickness?,
-        conductivity_w_m_k: k?,
-        heat_capacity_j_m3_k: c?,
-        frozen_conductivity_w_m_k: k_f?,
-        frozen_heat_capacity_j_m3_k: c_f?,
+        conductivity_w_per_m_k: k?,
+        heat_capacity_j_per_m3_k: c?,
+        frozen_conductivity_w_per_m_k: k_f?,
+        frozen_heat_capacity_j_per_m3_k: c_f?,
         water_content: w,
-        latent_heat_j_m3: soils::latent_heat_j_m3(w),
+        latent_heat_j_per_m3: soils::latent_heat_j_per_m3(w),
         freezing_interval_k: interval?,
         preset: doc.soil.clone(),
     })
@@ -573,7 +573,7 @@ pub fn wall_layers(docs: &[WallLayerDoc], path: &KeyPath, v: &mut Validator) -> 
             Some(WallLayer {
                 name: l.name.clone(),
                 thickness_m: t?,
-                conductivity_w_m_k: k,
+                conductivity_w_per_m_k: k,
                 insulation_law: law,
             })
         })
@@ -745,11 +745,11 @@ pub fn layer_conductivity(
                 }
             };
             let law = crate::model::InsulationLaw {
-                lambda_50_w_m_k: fresh?,
-                slope_w_m_k2: slope?,
+                lambda_50_w_per_m_k: fresh?,
+                slope_w_per_m_k2: slope?,
                 ageing: ageing?,
             };
-            Some((law.lambda_50_w_m_k * (1.0 + law.ageing), Some(law)))
+            Some((law.lambda_50_w_per_m_k * (1.0 + law.ageing), Some(law)))
         }
     }
 }

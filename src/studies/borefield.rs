@@ -97,7 +97,7 @@ pub struct Design<'a> {
     local: Option<BoreholeResistances>,
     /// ṁ c_p of one borehole at the lower fluid limit, W/K.
     flow_capacity_w_per_k: f64,
-    mass_flow_kg_s: f64,
+    mass_flow_kg_per_s: f64,
     /// Shortest time the superposition asks the step response for, s.
     shortest_time_s: f64,
     life_s: f64,
@@ -213,14 +213,14 @@ impl Loads {
 /// The ground along the active length.
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct GroundAlong {
-    pub conductivity_w_m_k: f64,
-    pub heat_capacity_j_m3_k: f64,
+    pub conductivity_w_per_m_k: f64,
+    pub heat_capacity_j_per_m3_k: f64,
     pub undisturbed_c: f64,
 }
 
 impl GroundAlong {
-    pub fn diffusivity_m2_s(&self) -> f64 {
-        self.conductivity_w_m_k / self.heat_capacity_j_m3_k
+    pub fn diffusivity_m2_per_s(&self) -> f64 {
+        self.conductivity_w_per_m_k / self.heat_capacity_j_per_m3_k
     }
 }
 
@@ -232,8 +232,8 @@ pub fn layer_means(layers: &[SoilLayer], top_m: f64, bottom_m: f64) -> (f64, f64
         let t = l.thickness_m.unwrap_or(f64::INFINITY);
         let overlap = (z + t).min(bottom_m) - z.max(top_m);
         if overlap > 0.0 {
-            k += overlap * l.conductivity_w_m_k;
-            c += overlap * l.heat_capacity_j_m3_k;
+            k += overlap * l.conductivity_w_per_m_k;
+            c += overlap * l.heat_capacity_j_per_m3_k;
             w += overlap;
         }
         z += t;
@@ -311,9 +311,9 @@ impl<'a> Design<'a> {
         let t = b.min_fluid_c;
         let fluid = &b.fluid;
         fluid.check_temperature(t)?;
-        let mass_flow = fluid.density_kg_m3(t) * b.flow_per_borehole_m3_s;
-        let capacity = mass_flow * fluid.specific_heat_j_kg_k(t);
-        let local = match b.measured_resistance_m_k_w {
+        let mass_flow = fluid.density_kg_per_m3(t) * b.flow_per_borehole_m3_per_s;
+        let capacity = mass_flow * fluid.specific_heat_j_per_kg_k(t);
+        let local = match b.measured_resistance_m_k_per_w {
             Some(_) => None,
             None => Some(local_resistances(b, site, fluid, t, mass_flow)?),
         };
@@ -329,7 +329,7 @@ impl<'a> Design<'a> {
             loads,
             local,
             flow_capacity_w_per_k: capacity,
-            mass_flow_kg_s: mass_flow,
+            mass_flow_kg_per_s: mass_flow,
             shortest_time_s: shortest,
             life_s: b.design_life_months as f64 * MONTH_S,
         })
@@ -355,8 +355,8 @@ impl<'a> Design<'a> {
             })
             .sum();
         GroundAlong {
-            conductivity_w_m_k: self.b.ground_conductivity_w_m_k.unwrap_or(k),
-            heat_capacity_j_m3_k: c,
+            conductivity_w_per_m_k: self.b.ground_conductivity_w_per_m_k.unwrap_or(k),
+            heat_capacity_j_per_m3_k: c,
             undisturbed_c: sum * dz / 3.0 / (bottom - top),
         }
     }
@@ -364,7 +364,7 @@ impl<'a> Design<'a> {
     /// Effective borehole resistance R_b* at active length `h_m`, m K/W.
     pub fn effective_resistance(&self, h_m: f64) -> Result<f64, String> {
         let Some(local) = self.local else {
-            return Ok(self.b.measured_resistance_m_k_w.unwrap_or_default());
+            return Ok(self.b.measured_resistance_m_k_per_w.unwrap_or_default());
         };
         let (rb, ra, c) = (
             local.borehole_m_k_per_w,
@@ -386,7 +386,7 @@ impl<'a> Design<'a> {
     pub fn tau_grid(&self, lengths_m: &[f64]) -> TauGrid {
         let (mut lo, mut hi) = (-10.0_f64, 3.0_f64);
         for &h in lengths_m {
-            let ts = characteristic_time_s(h, self.ground_along(h).diffusivity_m2_s());
+            let ts = characteristic_time_s(h, self.ground_along(h).diffusivity_m2_per_s());
             lo = lo.min((0.99 * self.shortest_time_s / ts).ln());
             hi = hi.max((1.01 * self.life_s / ts).ln());
         }
@@ -401,12 +401,12 @@ impl<'a> Design<'a> {
 
     /// Eskilson's time scale H²/(9α) at active length `h_m`, s.
     pub fn time_scale_s(&self, h_m: f64) -> f64 {
-        characteristic_time_s(h_m, self.ground_along(h_m).diffusivity_m2_s())
+        characteristic_time_s(h_m, self.ground_along(h_m).diffusivity_m2_per_s())
     }
 
     /// The g-function of the field at active length `h_m` on `grid`.
     pub fn g_curve(&self, h_m: f64, grid: &TauGrid) -> Result<GCurve, String> {
-        let alpha = self.ground_along(h_m).diffusivity_m2_s();
+        let alpha = self.ground_along(h_m).diffusivity_m2_per_s();
         let ts = self.time_scale_s(h_m);
         let times: Vec<f64> = (0..grid.points)
             .map(|i| ts * (grid.tau0 + i as f64 * grid.dtau).exp())
@@ -441,8 +441,8 @@ impl<'a> Design<'a> {
     pub fn evaluate(&self, h_m: f64, curve: &GCurve) -> Result<Evaluation, String> {
         let ground = self.ground_along(h_m);
         let resistance = self.effective_resistance(h_m)?;
-        let ts = characteristic_time_s(h_m, ground.diffusivity_m2_s());
-        let two_pi_k = 2.0 * PI * ground.conductivity_w_m_k;
+        let ts = characteristic_time_s(h_m, ground.diffusivity_m2_per_s());
+        let two_pi_k = 2.0 * PI * ground.conductivity_w_per_m_k;
         let step = |t: f64| curve.at((t / ts).ln()) / two_pi_k;
         let operation = BoreholeOperation {
             undisturbed_c: ground.undisturbed_c,
@@ -543,23 +543,28 @@ struct Channels {
     annulus: Option<ChannelFlow>,
 }
 
-fn channels(ex: &HeatExchanger, fluid: &Fluid, t_c: f64, mass_flow_kg_s: f64) -> Result<Channels, String> {
+fn channels(
+    ex: &HeatExchanger,
+    fluid: &Fluid,
+    t_c: f64,
+    mass_flow_kg_per_s: f64,
+) -> Result<Channels, String> {
     Ok(match ex {
         HeatExchanger::SingleU { pipe, .. } => Channels {
-            tube: pipe_flow::tube_flow(fluid, t_c, mass_flow_kg_s, pipe.inner_diameter_m())?,
+            tube: pipe_flow::tube_flow(fluid, t_c, mass_flow_kg_per_s, pipe.inner_diameter_m())?,
             annulus: None,
         },
         // Two circuits in parallel share the flow equally.
         HeatExchanger::DoubleU { pipe, .. } => Channels {
-            tube: pipe_flow::tube_flow(fluid, t_c, 0.5 * mass_flow_kg_s, pipe.inner_diameter_m())?,
+            tube: pipe_flow::tube_flow(fluid, t_c, 0.5 * mass_flow_kg_per_s, pipe.inner_diameter_m())?,
             annulus: None,
         },
         HeatExchanger::Coaxial { inner, outer } => Channels {
-            tube: pipe_flow::tube_flow(fluid, t_c, mass_flow_kg_s, inner.inner_diameter_m())?,
+            tube: pipe_flow::tube_flow(fluid, t_c, mass_flow_kg_per_s, inner.inner_diameter_m())?,
             annulus: Some(pipe_flow::annulus_flow(
                 fluid,
                 t_c,
-                mass_flow_kg_s,
+                mass_flow_kg_per_s,
                 inner.outer_diameter_m,
                 outer.inner_diameter_m(),
             )?),
@@ -573,12 +578,12 @@ fn local_resistances(
     site: &Site,
     fluid: &Fluid,
     t_c: f64,
-    mass_flow_kg_s: f64,
+    mass_flow_kg_per_s: f64,
 ) -> Result<BoreholeResistances, String> {
-    let flows = channels(&b.exchanger, fluid, t_c, mass_flow_kg_s)?;
+    let flows = channels(&b.exchanger, fluid, t_c, mass_flow_kg_per_s)?;
     // The grout's multipole field sees the ground beside the boreholes: the conductivity of the
     // layers over the starting length (a measured value when given).
-    let ground_k = b.ground_conductivity_w_m_k.unwrap_or_else(|| {
+    let ground_k = b.ground_conductivity_w_per_m_k.unwrap_or_else(|| {
         layer_means(
             &site.ground.layers,
             b.top_depth_m,
@@ -602,15 +607,15 @@ fn local_resistances(
                 LaminarWall::UniformTemperature,
                 0.5 * pipe.inner_diameter_m(),
                 0.5 * pipe.outer_diameter_m,
-                pipe.conductivity_w_m_k,
+                pipe.conductivity_w_per_m_k,
             )?;
             match b.exchanger {
                 HeatExchanger::DoubleU { pairing, .. } => DoubleU {
                     borehole_radius_m: rb,
                     pipe_outer_radius_m: 0.5 * pipe.outer_diameter_m,
                     shank_spacing_m,
-                    grout_conductivity_w_m_k: b.grout_conductivity_w_m_k,
-                    ground_conductivity_w_m_k: ground_k,
+                    grout_conductivity_w_per_m_k: b.grout_conductivity_w_per_m_k,
+                    ground_conductivity_w_per_m_k: ground_k,
                     pipe_resistance_m_k_per_w: rp,
                     pairing,
                 }
@@ -619,8 +624,8 @@ fn local_resistances(
                     borehole_radius_m: rb,
                     pipe_outer_radius_m: 0.5 * pipe.outer_diameter_m,
                     shank_spacing_m,
-                    grout_conductivity_w_m_k: b.grout_conductivity_w_m_k,
-                    ground_conductivity_w_m_k: ground_k,
+                    grout_conductivity_w_per_m_k: b.grout_conductivity_w_per_m_k,
+                    ground_conductivity_w_per_m_k: ground_k,
                     pipe_resistance_m_k_per_w: rp,
                 }
                 .resistances(DEFAULT_MULTIPOLE_ORDER),
@@ -631,7 +636,7 @@ fn local_resistances(
             let h_of = |nu: f64, flow: &ChannelFlow| {
                 pipe_flow::heat_transfer_coefficient_w_m2_k(
                     nu,
-                    flow.conductivity_w_m_k,
+                    flow.conductivity_w_per_m_k,
                     flow.hydraulic_diameter_m,
                 )
             };
@@ -649,11 +654,11 @@ fn local_resistances(
                 borehole_radius_m: rb,
                 inner_pipe_inner_radius_m: 0.5 * inner.inner_diameter_m(),
                 inner_pipe_outer_radius_m: 0.5 * inner.outer_diameter_m,
-                inner_pipe_conductivity_w_m_k: inner.conductivity_w_m_k,
+                inner_pipe_conductivity_w_per_m_k: inner.conductivity_w_per_m_k,
                 outer_pipe_inner_radius_m: 0.5 * outer.inner_diameter_m(),
                 outer_pipe_outer_radius_m: 0.5 * outer.outer_diameter_m,
-                outer_pipe_conductivity_w_m_k: outer.conductivity_w_m_k,
-                grout_conductivity_w_m_k: b.grout_conductivity_w_m_k,
+                outer_pipe_conductivity_w_per_m_k: outer.conductivity_w_per_m_k,
+                grout_conductivity_w_per_m_k: b.grout_conductivity_w_per_m_k,
                 h_inner_pipe_w_m2_k: h_of(nu_tube, &flows.tube)?,
                 h_annulus_inner_wall_w_m2_k: h_of(nu_in, &annulus)?,
                 h_annulus_outer_wall_w_m2_k: h_of(nu_out, &annulus)?,
@@ -672,8 +677,8 @@ pub struct Hydraulics {
 
 /// Darcy–Weisbach with the Colebrook friction factor over the developed length from the surface
 /// to the foot and back, plus the U-bend (or the coaxial turn) at the foot.
-fn hydraulics(b: &Borefield, t_c: f64, mass_flow_kg_s: f64, length_m: f64) -> Result<Hydraulics, String> {
-    let flows = channels(&b.exchanger, &b.fluid, t_c, mass_flow_kg_s)?;
+fn hydraulics(b: &Borefield, t_c: f64, mass_flow_kg_per_s: f64, length_m: f64) -> Result<Hydraulics, String> {
+    let flows = channels(&b.exchanger, &b.fluid, t_c, mass_flow_kg_per_s)?;
     let depth = b.top_depth_m + length_m;
     let drop = |flow: &ChannelFlow, roughness_m: f64, path_m: f64, local: f64| -> Result<f64, String> {
         let f = pipe_flow::darcy_friction_factor(
@@ -905,8 +910,8 @@ fn result(
         .fold(f64::NEG_INFINITY, f64::max);
     let (lo, hi) = b.fluid.valid_temperature_range_c();
     let hydraulic_t = coldest.clamp(lo, hi);
-    let hyd = hydraulics(b, hydraulic_t, d.mass_flow_kg_s, length)?;
-    let volume_flow_field = b.flow_per_borehole_m3_s * n as f64;
+    let hyd = hydraulics(b, hydraulic_t, d.mass_flow_kg_per_s, length)?;
+    let volume_flow_field = b.flow_per_borehole_m3_per_s * n as f64;
     let pumping = pipe_flow::pumping_power_w(hyd.pressure_drop_pa, volume_flow_field, b.pump_efficiency)?;
     let freezing = b.fluid.freezing_point_c();
     let regime = if hyd.reynolds < LAMINAR_LIMIT_RE {
@@ -988,7 +993,7 @@ fn result(
             ),
         );
     }
-    let ts = characteristic_time_s(length, e.ground.diffusivity_m2_s());
+    let ts = characteristic_time_s(length, e.ground.diffusivity_m2_per_s());
     let result = BorefieldResult {
         layout: b.layout_description.clone(),
         boreholes: n,
@@ -1020,24 +1025,24 @@ fn result(
         total_length_m: length * n as f64,
         top_depth_m: b.top_depth_m,
         ground: BorefieldGround {
-            conductivity_w_m_k: e.ground.conductivity_w_m_k,
-            conductivity_source: if b.ground_conductivity_w_m_k.is_some() {
+            conductivity_w_per_m_k: e.ground.conductivity_w_per_m_k,
+            conductivity_source: if b.ground_conductivity_w_per_m_k.is_some() {
                 "measured"
             } else {
                 "layers"
             }
             .into(),
-            heat_capacity_j_m3_k: e.ground.heat_capacity_j_m3_k,
-            diffusivity_m2_s: e.ground.diffusivity_m2_s(),
+            heat_capacity_j_per_m3_k: e.ground.heat_capacity_j_per_m3_k,
+            diffusivity_m2_per_s: e.ground.diffusivity_m2_per_s(),
             undisturbed_c: e.ground.undisturbed_c,
         },
         fluid: BorefieldFluid {
             mixture: b.fluid.mixture.name().into(),
             mass_fraction: b.fluid.mass_fraction,
             property_temperature_c: t_p,
-            density_kg_m3: b.fluid.density_kg_m3(t_p),
-            specific_heat_j_kg_k: b.fluid.specific_heat_j_kg_k(t_p),
-            flow_per_borehole_l_per_s: b.flow_per_borehole_m3_s * 1000.0,
+            density_kg_per_m3: b.fluid.density_kg_per_m3(t_p),
+            specific_heat_j_per_kg_k: b.fluid.specific_heat_j_per_kg_k(t_p),
+            flow_per_borehole_l_per_s: b.flow_per_borehole_m3_per_s * 1000.0,
             reynolds: hyd.reynolds,
             flow_regime: regime.into(),
         },

@@ -65,11 +65,11 @@ pub fn soil_layers(site: &Site) -> Result<Vec<SoilLayer>, String> {
             Ok(SoilLayer {
                 thickness_m: l.thickness_m.unwrap_or(f64::INFINITY),
                 material: Material::new(
-                    l.conductivity_w_m_k,
-                    l.frozen_conductivity_w_m_k,
-                    l.heat_capacity_j_m3_k,
-                    l.frozen_heat_capacity_j_m3_k,
-                    l.latent_heat_j_m3,
+                    l.conductivity_w_per_m_k,
+                    l.frozen_conductivity_w_per_m_k,
+                    l.heat_capacity_j_per_m3_k,
+                    l.frozen_heat_capacity_j_per_m3_k,
+                    l.latent_heat_j_per_m3,
                     l.freezing_interval_k,
                 )?,
             })
@@ -87,8 +87,8 @@ fn model(s: &CrossSection, site: &Site, surface: &SurfaceYear, steady: bool) -> 
         Box::new(move |t| year.surface_c(t))
     };
     let mut m = SectionModel::new(section::Geometry::Planar, s.width_m, s.depth_m, layers, surface_c);
-    m.surface_resistance_m2_k_w = s.surface_resistance_m2_k_w;
-    m.bottom_flux_w_m2 = site.ground.geothermal_flux_w_m2;
+    m.surface_resistance_m2_k_per_w = s.surface_resistance_m2_k_per_w;
+    m.bottom_flux_w_per_m2 = site.ground.geothermal_flux_w_per_m2;
     m.inclusions = s
         .inclusions
         .iter()
@@ -98,7 +98,7 @@ fn model(s: &CrossSection, site: &Site, surface: &SurfaceYear, steady: bool) -> 
                 x_max_m: b.x_m + b.width_m / 2.0,
                 z_min_m: b.depth_m,
                 z_max_m: b.depth_m + b.height_m,
-                material: Material::dry(b.conductivity_w_m_k, b.heat_capacity_j_m3_k)?,
+                material: Material::dry(b.conductivity_w_per_m_k, b.heat_capacity_j_per_m3_k)?,
             })
         })
         .collect::<Result<_, String>>()?;
@@ -119,7 +119,7 @@ pub fn engine_pipe(p: &Pipe, steady: bool) -> Result<EnginePipe, String> {
         let layers: Vec<WallLayer> = p
             .layers
             .iter()
-            .map(|l| WallLayer::new(l.thickness_m, l.conductivity_w_m_k))
+            .map(|l| WallLayer::new(l.thickness_m, l.conductivity_w_per_m_k))
             .collect();
         wall_resistance_m_k_per_w(p.inner_radius_m(), &layers)?
     };
@@ -142,7 +142,7 @@ pub fn engine_pipe(p: &Pipe, steady: bool) -> Result<EnginePipe, String> {
         x_m: p.x_m,
         z_m: p.depth_m,
         outer_radius_m: p.outer_radius_m(),
-        wall_resistance_m_k_w: wall,
+        wall_resistance_m_k_per_w: wall,
         drive,
     })
 }
@@ -323,12 +323,12 @@ pub fn flux_arrows(snap: &section::Snapshot, columns: usize) -> FluxArrows {
         for col in 0..columns {
             let across = x0 + (col as f64 + 0.5) * spacing;
             let c = nearest(z, depth) * nx + nearest(x, across);
-            let (qx, qz) = (snap.q_x_w_m2[c], snap.q_z_w_m2[c]);
+            let (qx, qz) = (snap.q_x_w_per_m2[c], snap.q_z_w_per_m2[c]);
             if qx.is_finite() && qz.is_finite() {
                 arrows.x_m.push(x[c % nx]);
                 arrows.z_m.push(z[c / nx]);
-                arrows.qx_w_m2.push(qx);
-                arrows.qz_w_m2.push(qz);
+                arrows.qx_w_per_m2.push(qx);
+                arrows.qz_w_per_m2.push(qz);
             }
         }
     }

@@ -12,9 +12,9 @@ use crate::studies::frost_numerical::{self as numerical, DEFAULT_RESOLUTION, Pip
 
 /// Volumetric heat capacity of water near 0 °C, J/(m3 K): 999.8 kg/m3 × 4219 J/(kg K) (IAPWS-95
 /// at 0.01 °C, from memory).
-const WATER_C_J_M3_K: f64 = 4.218e6;
+const WATER_C_J_PER_M3_K: f64 = 4.218e6;
 /// Latent heat of freezing per m3 of water: 1000 kg/m3 × 333.55 kJ/kg (IAPWS).
-const WATER_LATENT_J_M3: f64 = 333.55e6;
+const WATER_LATENT_J_PER_M3: f64 = 333.55e6;
 /// Day of the year (0-based, 365-day year) of a month and day.
 fn day_of_year((month, day): (u32, u32)) -> usize {
     (days_from_civil(2001, month, day) - days_from_civil(2001, 1, 1)) as usize
@@ -257,7 +257,7 @@ fn board_figures(
     r.board_width_m = Some(width);
     r.board = Some(Box::new(BoardFigures {
         thickness_m: board.thickness_m,
-        conductivity_w_m_k: board.conductivity_w_m_k,
+        conductivity_w_per_m_k: board.conductivity_w_per_m_k,
         gap_m: board.gap_m,
         max_width_m: board.max_width_m,
         trials: trials
@@ -461,11 +461,11 @@ fn frost_layers(site: &Site) -> Vec<fp::FrostLayer> {
         .iter()
         .map(|l| fp::FrostLayer {
             thickness_m: l.thickness_m.unwrap_or(f64::INFINITY),
-            k_frozen_w_mk: l.frozen_conductivity_w_m_k,
-            k_unfrozen_w_mk: l.conductivity_w_m_k,
-            c_frozen_j_m3k: l.frozen_heat_capacity_j_m3_k,
-            c_unfrozen_j_m3k: l.heat_capacity_j_m3_k,
-            latent_j_m3: l.latent_heat_j_m3,
+            k_frozen_w_mk: l.frozen_conductivity_w_per_m_k,
+            k_unfrozen_w_mk: l.conductivity_w_per_m_k,
+            c_frozen_j_m3k: l.frozen_heat_capacity_j_per_m3_k,
+            c_unfrozen_j_m3k: l.heat_capacity_j_per_m3_k,
+            latent_j_per_m3: l.latent_heat_j_per_m3,
         })
         .collect()
 }
@@ -499,7 +499,7 @@ fn pipe_checks(
     }
     // Coldest pipe wall: the undisturbed ground at the pipe's depth, day by day, with the water
     // (or the heat rate) through the wall and ground resistances in series.
-    let k = site.ground.layer_at(pipe.depth_m).conductivity_w_m_k;
+    let k = site.ground.layer_at(pipe.depth_m).conductivity_w_per_m_k;
     let soil = Soil::new(k, 0.0)?;
     let r_ground =
         ground_resistance_m_k_per_w(pipe.depth_m, pipe.outer_radius_m(), &soil, GroundForm::Exact)?;
@@ -532,12 +532,12 @@ fn pipe_checks(
             .and_then(|n| n.ground_min_at_pipe_c)
             .unwrap_or(ground_min);
         let resistance = r_wall + r_ground;
-        match fp::bleed_flow_m3_s(
+        match fp::bleed_flow_m3_per_s(
             water_min,
             ground_c,
             bleed.min_temperature_c,
             bleed.length_m,
-            WATER_C_J_M3_K,
+            WATER_C_J_PER_M3_K,
             resistance,
         ) {
             Ok(flow) => {
@@ -568,8 +568,8 @@ fn pipe_checks(
             inner_diameter_m: 2.0 * pipe.inner_radius_m(),
             wall_resistance_m_k_per_w: r_wall,
             ground_resistance_m_k_per_w: r_ground,
-            water_heat_capacity_j_m3k: WATER_C_J_M3_K,
-            water_latent_j_m3: WATER_LATENT_J_M3,
+            water_heat_capacity_j_m3k: WATER_C_J_PER_M3_K,
+            water_latent_j_per_m3: WATER_LATENT_J_PER_M3,
             freezing_point_c: 0.0,
         };
         let (first_ice, ice) = if ground_min < 0.0 && initial > 0.0 {
@@ -611,7 +611,7 @@ fn wall_resistance(pipe: &Pipe) -> Result<f64, String> {
     let layers: Vec<crate::physics::buried_pipe::wall::WallLayer> = pipe
         .layers
         .iter()
-        .map(|l| crate::physics::buried_pipe::wall::WallLayer::new(l.thickness_m, l.conductivity_w_m_k))
+        .map(|l| crate::physics::buried_pipe::wall::WallLayer::new(l.thickness_m, l.conductivity_w_per_m_k))
         .collect();
     if layers.is_empty() {
         return Ok(0.0);

@@ -185,7 +185,7 @@ fn base_model(
         soil_layers(site)?,
         Box::new(move |t| w.surface_c(t, design_start_s)),
     );
-    m.bottom_flux_w_m2 = site.ground.geothermal_flux_w_m2;
+    m.bottom_flux_w_per_m2 = site.ground.geothermal_flux_w_per_m2;
     Ok(m)
 }
 
@@ -332,7 +332,7 @@ pub fn board_trial(
             x_max_m: half,
             z_min_m: bottom - board.thickness_m,
             z_max_m: bottom,
-            material: Material::dry(board.conductivity_w_m_k, board.heat_capacity_j_m3_k)?,
+            material: Material::dry(board.conductivity_w_per_m_k, board.heat_capacity_j_per_m3_k)?,
         });
     }
     let res = Resolution {

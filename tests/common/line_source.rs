@@ -30,9 +30,9 @@ pub fn exp1(x: f64) -> f64 {
 }
 
 /// h(t) in K m/W for a borehole of radius `rb_m` in ground of conductivity `k` and diffusivity
-/// `alpha_m2_s`.
-pub fn line_source_step_response(rb_m: f64, k: f64, alpha_m2_s: f64) -> impl Fn(f64) -> f64 {
-    move |t_s: f64| exp1(rb_m * rb_m / (4.0 * alpha_m2_s * t_s)) / (4.0 * std::f64::consts::PI * k)
+/// `alpha_m2_per_s`.
+pub fn line_source_step_response(rb_m: f64, k: f64, alpha_m2_per_s: f64) -> impl Fn(f64) -> f64 {
+    move |t_s: f64| exp1(rb_m * rb_m / (4.0 * alpha_m2_per_s * t_s)) / (4.0 * std::f64::consts::PI * k)
 }
 
 /// An invented 25-year-like hourly load of a heating-dominated borehole, heat to the ground in

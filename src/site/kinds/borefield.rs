@@ -419,10 +419,10 @@ pub fn validate(doc: &BorefieldDoc, path: &KeyPath, v: &mut Validator) -> Option
         top_depth_m: top?,
         borehole_radius_m: diameter? / 2.0,
         exchanger,
-        grout_conductivity_w_m_k: grout,
-        measured_resistance_m_k_w: measured,
+        grout_conductivity_w_per_m_k: grout,
+        measured_resistance_m_k_per_w: measured,
         fluid: fluid?,
-        flow_per_borehole_m3_s: flow?,
+        flow_per_borehole_m3_per_s: flow?,
         loads: loads?,
         min_fluid_c: min_fluid?,
         max_fluid_c: max_fluid?,
@@ -434,7 +434,7 @@ pub fn validate(doc: &BorefieldDoc, path: &KeyPath, v: &mut Validator) -> Option
         size: doc.size.is_some(),
         segments: segments?,
         pump_efficiency: pump?,
-        ground_conductivity_w_m_k: ground_k?,
+        ground_conductivity_w_per_m_k: ground_k?,
     })
 }
 
@@ -547,7 +547,7 @@ fn loop_pipe(doc: &LoopPipeDoc, path: &KeyPath, v: &mut Validator) -> Option<Loo
     Some(LoopPipe {
         outer_diameter_m: d,
         wall_m: wall,
-        conductivity_w_m_k: k?,
+        conductivity_w_per_m_k: k?,
         roughness_m: roughness?,
     })
 }

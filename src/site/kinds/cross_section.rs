@@ -190,7 +190,7 @@ pub fn validate(doc: &CrossSectionDoc, path: &KeyPath, v: &mut Validator) -> Opt
         probes: probes.into_iter().collect::<Option<_>>()?,
         inclusions: inclusions.into_iter().collect::<Option<_>>()?,
         snapshots_s: snapshots.into_iter().collect::<Option<_>>()?,
-        surface_resistance_m2_k_w: surface_r?,
+        surface_resistance_m2_k_per_w: surface_r?,
     };
     geometry(&section, path, v).then_some(section)
 }
@@ -259,8 +259,8 @@ fn inclusion(d: &InclusionDoc, path: &KeyPath, v: &mut Validator) -> Option<Incl
         depth_m: z?,
         width_m: w?,
         height_m: h?,
-        conductivity_w_m_k: k?,
-        heat_capacity_j_m3_k: c?,
+        conductivity_w_per_m_k: k?,
+        heat_capacity_j_per_m3_k: c?,
     })
 }
 

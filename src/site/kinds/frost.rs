@@ -20,7 +20,7 @@ pub const DEFAULT_BOARD_GAP_M: f64 = 0.1;
 pub const DEFAULT_BOARD_MAX_WIDTH_M: f64 = 3.0;
 /// Volumetric heat capacity of a foam board when none is given, J/(m3 K): extruded polystyrene,
 /// about 35 kg/m3 × 1450 J/(kg K) (from memory; its effect on a winter is negligible).
-pub const DEFAULT_BOARD_HEAT_CAPACITY_J_M3_K: f64 = 0.05e6;
+pub const DEFAULT_BOARD_HEAT_CAPACITY_J_PER_M3_K: f64 = 0.05e6;
 
 /// Frost penetration under the site's climate and whether a water main at its cover stays
 /// frost-free.
@@ -255,7 +255,7 @@ fn board(b: &BoardDoc, p: &KeyPath, v: &mut Validator, has_pipe: bool) -> Option
     let thickness = v.positive_q(&b.thickness, &p.key("thickness"), "the board thickness");
     let k = v.positive_q(&b.conductivity, &p.key("conductivity"), "the board conductivity");
     let c = match &b.heat_capacity {
-        None => Some(DEFAULT_BOARD_HEAT_CAPACITY_J_M3_K),
+        None => Some(DEFAULT_BOARD_HEAT_CAPACITY_J_PER_M3_K),
         Some(q) => v.positive_q(q, &p.key("heat_capacity"), "the board heat capacity"),
     };
     let gap = match &b.gap {
@@ -278,8 +278,8 @@ fn board(b: &BoardDoc, p: &KeyPath, v: &mut Validator, has_pipe: bool) -> Option
     }
     Some(Some(FrostBoard {
         thickness_m: thickness?,
-        conductivity_w_m_k: k?,
-        heat_capacity_j_m3_k: c?,
+        conductivity_w_per_m_k: k?,
+        heat_capacity_j_per_m3_k: c?,
         gap_m: gap?,
         max_width_m: max_width?,
     }))

@@ -17,7 +17,7 @@ use crate::physics::buried_pipe::system::{
 };
 use crate::physics::buried_pipe::twin::{TwinMethod, TwinPipe, TwinResistances};
 use crate::physics::buried_pipe::wall::{
-    LinearConductivity, WallLayer, aged_lambda50_w_m_k, insulation_mean_temperature_c,
+    LinearConductivity, WallLayer, aged_lambda50_w_per_m_k, insulation_mean_temperature_c,
     wall_resistance_m_k_per_w,
 };
 use crate::physics::buried_pipe::{GroundForm, Position, Soil};
@@ -38,13 +38,13 @@ const LAMBDA_REFERENCE_C: f64 = 50.0;
 /// The converged insulation of one pipe (or of the twin) under an EN 253 law, per month.
 #[derive(Clone, Copy, Debug)]
 struct Insulation {
-    lambda_w_m_k: [f64; 12],
+    lambda_w_per_m_k: [f64; 12],
     mean_c: [f64; 12],
 }
 
 impl Insulation {
     fn mean_lambda(&self) -> f64 {
-        self.lambda_w_m_k.iter().sum::<f64>() / 12.0
+        self.lambda_w_per_m_k.iter().sum::<f64>() / 12.0
     }
     fn mean_temperature_c(&self) -> f64 {
         self.mean_c.iter().sum::<f64>() / 12.0
@@ -55,7 +55,7 @@ impl Insulation {
 struct TwinLosses {
     /// Resistances at the annual-mean insulation conductivity.
     resistances: TwinResistances,
-    insulation_w_m_k: f64,
+    insulation_w_per_m_k: f64,
     insulation: Option<Insulation>,
 }
 
@@ -106,11 +106,11 @@ pub fn run(
 ) -> Result<(HeatLossResult, Vec<Warning>), String> {
     let mut warnings = Vec::new();
     let mean_depth = study.pipes.iter().map(|p| p.depth_m).sum::<f64>() / study.pipes.len() as f64;
-    let k = site.ground.layer_at(mean_depth).conductivity_w_m_k;
+    let k = site.ground.layer_at(mean_depth).conductivity_w_per_m_k;
     if let Some(w) = layered_ground_caution(id, study, site, k) {
         warnings.push(w);
     }
-    let soil = Soil::new(k, study.surface_resistance_m2_k_w)?;
+    let soil = Soil::new(k, study.surface_resistance_m2_k_per_w)?;
     let ground_c: Vec<[f64; 12]> = study
         .pipes
         .iter()
@@ -133,7 +133,7 @@ pub fn run(
                 u_w_per_m_k: losses.mean[i] / (mean_fluid - mean_ground),
                 monthly_heat_loss_w_per_m: losses.monthly[i].to_vec(),
                 monthly_fluid_temperature_c: fluid.to_vec(),
-                insulation_conductivity_w_m_k: losses.insulation[i].map(|x| x.mean_lambda()),
+                insulation_conductivity_w_per_m_k: losses.insulation[i].map(|x| x.mean_lambda()),
                 insulation_mean_temperature_c: losses.insulation[i].map(|x| x.mean_temperature_c()),
             }
         })
@@ -175,7 +175,7 @@ pub fn run(
             id: t.id.clone(),
             casing_outer_diameter_m: t.outer_diameter_m,
             carrier_spacing_m: t.carrier_spacing_m,
-            insulation_conductivity_w_m_k: tl.insulation_w_m_k,
+            insulation_conductivity_w_per_m_k: tl.insulation_w_per_m_k,
             insulation_mean_temperature_c: tl.insulation.map(|x| x.mean_temperature_c()),
             symmetric_resistance_m_k_per_w: tl.resistances.symmetric_m_k_per_w(),
             antisymmetric_resistance_m_k_per_w: tl.resistances.antisymmetric_m_k_per_w,
@@ -192,8 +192,8 @@ pub fn run(
             total_heat_loss_w_per_m: losses.total_mean(),
             annual_heat_loss_mwh: losses.total_kwh() * study.length_m / 1000.0,
             length_m: study.length_m,
-            soil_conductivity_w_m_k: k,
-            surface_resistance_m2_k_per_w: study.surface_resistance_m2_k_w,
+            soil_conductivity_w_per_m_k: k,
+            surface_resistance_m2_k_per_w: study.surface_resistance_m2_k_per_w,
             monthly_ground_temperature_c: ground.monthly_mean_at(mean_depth).to_vec(),
             pipes,
             sizing,
@@ -214,7 +214,7 @@ fn section(p: &Pipe) -> PipeSection {
         layers: p
             .layers
             .iter()
-            .map(|l| WallLayer::new(l.thickness_m, l.conductivity_w_m_k))
+            .map(|l| WallLayer::new(l.thickness_m, l.conductivity_w_per_m_k))
             .collect(),
     }
 }
@@ -236,9 +236,9 @@ fn fluid_monthly(p: &Pipe) -> [f64; 12] {
 /// The EN 253 law as a line in temperature: the aged λ50 at 50 °C and the slope.
 fn linear_law(law: &InsulationLaw) -> Result<LinearConductivity, String> {
     LinearConductivity::new(
-        aged_lambda50_w_m_k(law.lambda_50_w_m_k, law.ageing)?,
+        aged_lambda50_w_per_m_k(law.lambda_50_w_per_m_k, law.ageing)?,
         LAMBDA_REFERENCE_C,
-        law.slope_w_m_k2,
+        law.slope_w_per_m_k2,
     )
 }
 
@@ -282,7 +282,7 @@ fn pipe_losses(pipes: &[Pipe], ground_c: &[[f64; 12]], soil: &Soil) -> Result<Lo
         .iter()
         .map(|l| {
             l.map(|_| Insulation {
-                lambda_w_m_k: [0.0; 12],
+                lambda_w_per_m_k: [0.0; 12],
                 mean_c: [0.0; 12],
             })
         })
@@ -296,14 +296,14 @@ fn pipe_losses(pipes: &[Pipe], ground_c: &[[f64; 12]], soil: &Soil) -> Result<Lo
             monthly[i][m] = s.heat_w_per_m;
             if let (Some(ins), Some(lambda), Some((layer, _))) = (&mut insulation[i], lambdas[i], laws[i]) {
                 let mut sec = sections[i].clone();
-                sec.layers[layer].conductivity_w_m_k = lambda;
+                sec.layers[layer].conductivity_w_per_m_k = lambda;
                 let faces = crate::physics::buried_pipe::wall::face_temperatures_c(
                     s.fluid_c,
                     s.heat_w_per_m,
                     sec.inner_radius_m()?,
                     &sec.layers,
                 )?;
-                ins.lambda_w_m_k[m] = lambda;
+                ins.lambda_w_per_m_k[m] = lambda;
                 ins.mean_c[m] = insulation_mean_temperature_c(faces[layer], faces[layer + 1]);
             }
         }
@@ -312,19 +312,19 @@ fn pipe_losses(pipes: &[Pipe], ground_c: &[[f64; 12]], soil: &Soil) -> Result<Lo
 }
 
 /// The physics twin pipe of the study's casing and carriers, with insulation conductivity
-/// `insulation_w_m_k`.
-fn twin_pipe(t: &TwinCasing, carrier: &Pipe, insulation_w_m_k: f64) -> Result<TwinPipe, String> {
+/// `insulation_w_per_m_k`.
+fn twin_pipe(t: &TwinCasing, carrier: &Pipe, insulation_w_per_m_k: f64) -> Result<TwinPipe, String> {
     let layers: Vec<WallLayer> = carrier
         .layers
         .iter()
-        .map(|l| WallLayer::new(l.thickness_m, l.conductivity_w_m_k))
+        .map(|l| WallLayer::new(l.thickness_m, l.conductivity_w_per_m_k))
         .collect();
     Ok(TwinPipe {
         centre: Position::new(t.x_m, t.depth_m),
         casing_outer_radius_m: t.outer_radius_m(),
         casing_thickness_m: t.casing_thickness_m,
-        casing_conductivity_w_m_k: t.casing_conductivity_w_m_k,
-        insulation_conductivity_w_m_k: insulation_w_m_k,
+        casing_conductivity_w_per_m_k: t.casing_conductivity_w_per_m_k,
+        insulation_conductivity_w_per_m_k: insulation_w_per_m_k,
         carrier_outer_radius_m: carrier.outer_radius_m(),
         carrier_spacing_m: t.carrier_spacing_m,
         carrier_wall_resistance_m_k_per_w: wall_resistance_m_k_per_w(carrier.inner_radius_m(), &layers)?,
@@ -350,7 +350,7 @@ fn twin_month(
 ) -> Result<TwinMonth, String> {
     let mut lambda = match law {
         Some(l) => l.at(LAMBDA_REFERENCE_C)?,
-        None => t.insulation_conductivity_w_m_k,
+        None => t.insulation_conductivity_w_per_m_k,
     };
     for _ in 0..100 {
         let pipe = twin_pipe(t, carrier, lambda)?;
@@ -382,7 +382,7 @@ fn twin_losses(
     let (supply, ret) = (fluid_monthly(&carriers[0]), fluid_monthly(&carriers[1]));
     let mut monthly = vec![[0.0; 12]; 2];
     let mut ins = Insulation {
-        lambda_w_m_k: [t.insulation_conductivity_w_m_k; 12],
+        lambda_w_per_m_k: [t.insulation_conductivity_w_per_m_k; 12],
         mean_c: [f64::NAN; 12],
     };
     for m in 0..12 {
@@ -396,7 +396,7 @@ fn twin_losses(
         monthly[0][m] = q[0];
         monthly[1][m] = q[1];
         if let Some((lambda, mean_c)) = state {
-            ins.lambda_w_m_k[m] = lambda;
+            ins.lambda_w_per_m_k[m] = lambda;
             ins.mean_c[m] = mean_c;
         }
     }
@@ -409,7 +409,7 @@ fn twin_losses(
         vec![None; 2],
         Some(TwinLosses {
             resistances,
-            insulation_w_m_k: lambda,
+            insulation_w_per_m_k: lambda,
             insulation,
         }),
     )
@@ -448,8 +448,8 @@ fn layered_ground_caution(id: &str, study: &HeatLoss, site: &Site, k: f64) -> Op
         .layers
         .iter()
         .zip(&tops)
-        .filter(|(l, top)| **top < 2.0 * deepest && (l.conductivity_w_m_k - k).abs() > LAYER_CONTRAST * k)
-        .map(|(l, _)| format!("{} ({:.2} W/(m K))", l.name, l.conductivity_w_m_k))
+        .filter(|(l, top)| **top < 2.0 * deepest && (l.conductivity_w_per_m_k - k).abs() > LAYER_CONTRAST * k)
+        .map(|(l, _)| format!("{} ({:.2} W/(m K))", l.name, l.conductivity_w_per_m_k))
         .collect();
     (!differing.is_empty()).then(|| Warning {
         study: Some(id.to_string()),
@@ -740,7 +740,7 @@ fn numerical_losses(
     for (p, ins) in pipes.iter_mut().zip(&losses.insulation) {
         if let Some(ins) = ins {
             for l in p.layers.iter_mut().filter(|l| l.insulation_law.is_some()) {
-                l.conductivity_w_m_k = ins.mean_lambda();
+                l.conductivity_w_per_m_k = ins.mean_lambda();
             }
         }
     }
@@ -748,9 +748,10 @@ fn numerical_losses(
         .twin
         .as_ref()
         .zip(losses.twin.as_ref())
-        .map(|(t, tl)| TwinBody::of(t, tl.insulation_w_m_k));
+        .map(|(t, tl)| TwinBody::of(t, tl.insulation_w_per_m_k));
     let points: Vec<(f64, f64)> = probes.iter().map(|&(x, z, _)| (x, z)).collect();
-    let resp: Responses = numerical::responses(&pipes, twin, site, study.surface_resistance_m2_k_w, &points)?;
+    let resp: Responses =
+        numerical::responses(&pipes, twin, site, study.surface_resistance_m2_k_per_w, &points)?;
     let mut monthly = vec![[0.0; 12]; pipes.len()];
     let mut probe_max_c = vec![f64::NEG_INFINITY; probes.len()];
     for m in 0..12 {

@@ -50,16 +50,16 @@ pub struct TwinBody {
     pub depth_m: f64,
     /// Outer radius of the insulation (inner radius of the casing), m.
     pub radius_m: f64,
-    pub conductivity_w_m_k: f64,
+    pub conductivity_w_per_m_k: f64,
 }
 
 impl TwinBody {
-    pub fn of(t: &TwinCasing, insulation_w_m_k: f64) -> Self {
+    pub fn of(t: &TwinCasing, insulation_w_per_m_k: f64) -> Self {
         Self {
             x_m: t.x_m,
             depth_m: t.depth_m,
             radius_m: t.outer_radius_m() - t.casing_thickness_m,
-            conductivity_w_m_k: insulation_w_m_k,
+            conductivity_w_per_m_k: insulation_w_per_m_k,
         }
     }
 
@@ -74,7 +74,7 @@ impl TwinBody {
             let y = y.clamp(-r, r);
             y * (r * r - y * y).max(0.0).sqrt() + r * r * (y / r).asin()
         };
-        let material = crate::engine::material::Material::dry(self.conductivity_w_m_k, 1.0e6)?;
+        let material = crate::engine::material::Material::dry(self.conductivity_w_per_m_k, 1.0e6)?;
         (0..2 * ROWS_PER_RADIUS)
             .map(|j| {
                 let y0 = -r + j as f64 * h;
@@ -101,14 +101,14 @@ pub fn responses(
     pipes: &[Pipe],
     twin: Option<TwinBody>,
     site: &Site,
-    surface_resistance_m2_k_w: f64,
+    surface_resistance_m2_k_per_w: f64,
     probes: &[(f64, f64)],
 ) -> Result<Responses, String> {
     let mut heat = vec![vec![0.0; pipes.len()]; pipes.len()];
     let mut rises = vec![vec![0.0; pipes.len()]; probes.len()];
     let mut cells = 0;
     for j in 0..pipes.len() {
-        let model = unit_model(pipes, j, twin, site, surface_resistance_m2_k_w)?;
+        let model = unit_model(pipes, j, twin, site, surface_resistance_m2_k_per_w)?;
         let sol = section::solve_steady(&model, &grid(pipes, twin), 0.0)?;
         for (i, q) in sol.heat_rate_w_per_m.iter().enumerate() {
             heat[i][j] = *q;
@@ -146,7 +146,7 @@ fn unit_model(
     driven: usize,
     twin: Option<TwinBody>,
     site: &Site,
-    surface_resistance_m2_k_w: f64,
+    surface_resistance_m2_k_per_w: f64,
 ) -> Result<SectionModel, String> {
     let reach = pipes
         .iter()
@@ -167,7 +167,7 @@ fn unit_model(
         soil_layers(site)?,
         Box::new(|_| 0.0),
     );
-    model.surface_resistance_m2_k_w = surface_resistance_m2_k_w;
+    model.surface_resistance_m2_k_per_w = surface_resistance_m2_k_per_w;
     model.pipes = pipes
         .iter()
         .enumerate()
@@ -199,7 +199,7 @@ mod tests {
             x_m: 0.3,
             depth_m: 1.0,
             radius_m: 0.14,
-            conductivity_w_m_k: 0.026,
+            conductivity_w_per_m_k: 0.026,
         };
         let area: f64 = body
             .strips()

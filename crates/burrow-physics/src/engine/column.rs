@@ -91,7 +91,7 @@ pub struct ColumnLayer {
     pub frozen_heat_capacity: f64,
     /// Latent heat of the pore water per unit soil volume, J/m³
     /// (volumetric water content × 1000 kg/m³ × 333.55 kJ/kg, IAPWS); 0 for dry soil.
-    pub latent_heat_j_m3: f64,
+    pub latent_heat_j_per_m3: f64,
     /// Water freezes linearly between 0 °C and `−freezing_interval_k`, K
     /// (default [`DEFAULT_FREEZING_INTERVAL_K`]).
     pub freezing_interval_k: f64,
@@ -106,7 +106,7 @@ impl ColumnLayer {
             frozen_conductivity: conductivity,
             heat_capacity,
             frozen_heat_capacity: heat_capacity,
-            latent_heat_j_m3: 0.0,
+            latent_heat_j_per_m3: 0.0,
             freezing_interval_k: DEFAULT_FREEZING_INTERVAL_K,
         }
     }
@@ -118,7 +118,7 @@ impl ColumnLayer {
         frozen_conductivity: f64,
         heat_capacity: f64,
         frozen_heat_capacity: f64,
-        latent_heat_j_m3: f64,
+        latent_heat_j_per_m3: f64,
     ) -> Self {
         Self {
             thickness_m,
@@ -126,7 +126,7 @@ impl ColumnLayer {
             frozen_conductivity,
             heat_capacity,
             frozen_heat_capacity,
-            latent_heat_j_m3,
+            latent_heat_j_per_m3,
             freezing_interval_k: DEFAULT_FREEZING_INTERVAL_K,
         }
     }
@@ -146,10 +146,10 @@ impl ColumnLayer {
                 ));
             }
         }
-        if !(self.latent_heat_j_m3.is_finite() && self.latent_heat_j_m3 >= 0.0) {
+        if !(self.latent_heat_j_per_m3.is_finite() && self.latent_heat_j_per_m3 >= 0.0) {
             return Err(format!(
-                "layer {index}: latent_heat_j_m3 is {}; it must be zero or a positive finite number",
-                self.latent_heat_j_m3
+                "layer {index}: latent_heat_j_per_m3 is {}; it must be zero or a positive finite number",
+                self.latent_heat_j_per_m3
             ));
         }
         let thickness_ok = self.thickness_m.is_finite() && self.thickness_m > 0.0;
@@ -369,8 +369,8 @@ pub fn step_response(
     let mut frost_depth_m = Vec::with_capacity(opts.steps);
     for n in 0..opts.steps {
         let flux = column.step(dt, surface_c, 0.0)?;
-        heat_in += dt * flux.surface_w_m2;
-        throughput += dt * flux.surface_w_m2.abs();
+        heat_in += dt * flux.surface_w_per_m2;
+        throughput += dt * flux.surface_w_per_m2.abs();
         times_s.push((n + 1) as f64 * dt);
         frost_depth_m.push(column.frozen_thickness_m());
     }
@@ -385,17 +385,17 @@ pub fn step_response(
 /// The periodic (annually repeating) temperature profile of a layered, possibly
 /// freezing soil column under the surface temperature `surface_c(t_s)` (°C, `t_s` in
 /// s after 1 January 00:00, sampled on `[0, 365 d)` and treated as periodic) and an
-/// upward geothermal heat flux `geothermal_flux_w_m2` (W/m², positive upward, so the
+/// upward geothermal heat flux `geothermal_flux_w_per_m2` (W/m², positive upward, so the
 /// ground warms with depth). See the module documentation for the method.
 pub fn periodic_profile(
     layers: &[ColumnLayer],
     surface_c: &dyn Fn(f64) -> f64,
-    geothermal_flux_w_m2: f64,
+    geothermal_flux_w_per_m2: f64,
     opts: &ColumnOptions,
 ) -> Result<PeriodicProfile, String> {
     validate_layers(layers)?;
     opts.validate()?;
-    if !geothermal_flux_w_m2.is_finite() {
+    if !geothermal_flux_w_per_m2.is_finite() {
         return Err("the geothermal flux must be a finite number of W/m²".into());
     }
     let steps = opts.steps_per_year;
@@ -410,7 +410,7 @@ pub fn periodic_profile(
     let bottom_m = (2.0 * opts.depth_m).max(opts.depth_m + 5.0 * damping_depth_m(max_diffusivity, YEAR_S));
     let grid = Grid::build(layers, opts.cell_size_m, bottom_m, &[opts.depth_m])?;
 
-    let initial = initial_temperatures(&grid, layers, &surface_at_step, dt, geothermal_flux_w_m2);
+    let initial = initial_temperatures(&grid, layers, &surface_at_step, dt, geothermal_flux_w_per_m2);
     let mut column = Column::new(&grid, layers, &initial);
     let mut previous_days: Option<Vec<Vec<f64>>> = None;
     let mut last_change = f64::INFINITY;
@@ -427,9 +427,9 @@ pub fn periodic_profile(
             let next_day = days.len();
             let day_in_step = next_day < DAYS_PER_YEAR && next_day * steps <= (n + 1) * DAYS_PER_YEAR;
             let before = day_in_step.then(|| column.t.clone());
-            let flux = column.step(dt, surface_at_step[(n + 1) % steps], geothermal_flux_w_m2)?;
-            heat_in += dt * (flux.surface_w_m2 + flux.bottom_w_m2);
-            throughput += dt * (flux.surface_w_m2.abs() + flux.bottom_w_m2.abs());
+            let flux = column.step(dt, surface_at_step[(n + 1) % steps], geothermal_flux_w_per_m2)?;
+            heat_in += dt * (flux.surface_w_per_m2 + flux.bottom_w_per_m2);
+            throughput += dt * (flux.surface_w_per_m2.abs() + flux.bottom_w_per_m2.abs());
             stats.add(&column);
             if let Some(before) = before {
                 let mut d = next_day;
@@ -463,7 +463,7 @@ pub fn periodic_profile(
                 ));
             }
         }
-        column.correct_deep_mean(&stats, geothermal_flux_w_m2);
+        column.correct_deep_mean(&stats, geothermal_flux_w_per_m2);
         previous_days = Some(days);
     }
     Err(format!(
@@ -522,7 +522,7 @@ fn initial_temperatures(
     layers: &[ColumnLayer],
     surface_at_step: &[f64],
     dt: f64,
-    geothermal_flux_w_m2: f64,
+    geothermal_flux_w_per_m2: f64,
 ) -> Vec<f64> {
     let wave = first_harmonic(surface_at_step, dt);
     let top = &layers[0];
@@ -536,7 +536,7 @@ fn initial_temperatures(
             let half = 0.5 * w / layers[layer].conductivity;
             let r_centre = resistance + half;
             resistance += 2.0 * half;
-            wave.ground_c(z, 0.0, diffusivity, 0.0) + geothermal_flux_w_m2 * r_centre
+            wave.ground_c(z, 0.0, diffusivity, 0.0) + geothermal_flux_w_per_m2 * r_centre
         })
         .collect()
 }
@@ -607,7 +607,7 @@ fn layer_material(l: &ColumnLayer) -> Material {
         l.frozen_conductivity,
         l.heat_capacity,
         l.frozen_heat_capacity,
-        l.latent_heat_j_m3,
+        l.latent_heat_j_per_m3,
         l.freezing_interval_k,
     )
 }
@@ -718,8 +718,8 @@ impl Grid {
 /// Net heat flows of one time step, W/m², positive into the soil.
 #[derive(Debug, Clone, Copy)]
 struct StepFlux {
-    surface_w_m2: f64,
-    bottom_w_m2: f64,
+    surface_w_per_m2: f64,
+    bottom_w_per_m2: f64,
 }
 
 /// Column state (enthalpy and temperature per cell) and work arrays.
@@ -756,7 +756,11 @@ impl Column {
             .map(|&l| layer_material(&layers[l]))
             .collect();
         let n = cells.len();
-        let h = cells.iter().zip(t_c).map(|(m, &t)| m.enthalpy_j_m3(t)).collect();
+        let h = cells
+            .iter()
+            .zip(t_c)
+            .map(|(m, &t)| m.enthalpy_j_per_m3(t))
+            .collect();
         Self {
             widths_m: grid.widths_m.clone(),
             linear: cells.iter().map(Material::is_linear).collect(),
@@ -798,7 +802,7 @@ impl Column {
     /// stay unfrozen or frozen the problem is linear and a uniform shift is a steady
     /// solution, so the periodic part is untouched and the step is exact; its fixed
     /// point is the periodic state itself (`F̄ = q`).
-    fn correct_deep_mean(&mut self, stats: &YearStatistics, geothermal_flux_w_m2: f64) {
+    fn correct_deep_mean(&mut self, stats: &YearStatistics, geothermal_flux_w_per_m2: f64) {
         let n = self.cells.len();
         let crossed = |i: usize| {
             let m = &self.cells[i];
@@ -809,10 +813,10 @@ impl Column {
         for i in anchor..n.saturating_sub(1) {
             let mean_flux = stats.flux_sum[i] / stats.count as f64;
             let mean_conductance = stats.conductance_sum[i] / stats.count as f64;
-            shift += (geothermal_flux_w_m2 - mean_flux) / mean_conductance;
+            shift += (geothermal_flux_w_per_m2 - mean_flux) / mean_conductance;
             let cell = i + 1;
             self.t[cell] += shift;
-            self.h[cell] = self.cells[cell].enthalpy_j_m3(self.t[cell]);
+            self.h[cell] = self.cells[cell].enthalpy_j_per_m3(self.t[cell]);
         }
     }
 
@@ -840,8 +844,8 @@ impl Column {
     }
 
     /// One backward-Euler step of length `dt_s` with the surface held at
-    /// `surface_c` and `bottom_flux_w_m2` entering at the bottom.
-    fn step(&mut self, dt_s: f64, surface_c: f64, bottom_flux_w_m2: f64) -> Result<StepFlux, String> {
+    /// `surface_c` and `bottom_flux_w_per_m2` entering at the bottom.
+    fn step(&mut self, dt_s: f64, surface_c: f64, bottom_flux_w_per_m2: f64) -> Result<StepFlux, String> {
         let n = self.cells.len();
         self.h_old.copy_from_slice(&self.h);
         if dt_s != self.storage_dt_s {
@@ -884,7 +888,7 @@ impl Column {
                 self.rhs[i] = storage * (self.cap[i] * self.t[i] - self.h[i] + self.h_old[i]);
             }
             self.rhs[0] += surface_conductance * surface_c;
-            self.rhs[n - 1] += bottom_flux_w_m2;
+            self.rhs[n - 1] += bottom_flux_w_per_m2;
             solve_symmetric_tridiagonal(
                 &self.diag,
                 &self.conductance,
@@ -892,7 +896,7 @@ impl Column {
                 &mut self.solution,
                 &mut self.scratch,
             );
-            let surface_w_m2 = surface_conductance * (surface_c - self.solution[0]);
+            let surface_w_per_m2 = surface_conductance * (surface_c - self.solution[0]);
             let mut change: f64 = 0.0;
             // The linearisation was exact if no cell left its linear piece of H(T)
             // and no cell sits where k varies with T (inside the freezing range).
@@ -910,8 +914,8 @@ impl Column {
             }
             if exact || (iteration > 0 && change < ITERATION_TOLERANCE_K) {
                 return Ok(StepFlux {
-                    surface_w_m2,
-                    bottom_w_m2: bottom_flux_w_m2,
+                    surface_w_per_m2,
+                    bottom_w_per_m2: bottom_flux_w_per_m2,
                 });
             }
         }

@@ -55,14 +55,14 @@ pub struct Material {
 
 impl Material {
     /// A checked material: conductivities, capacities and the freezing interval
-    /// positive and finite, `latent_heat_j_m3` (J/m³ of material: volumetric water
+    /// positive and finite, `latent_heat_j_per_m3` (J/m³ of material: volumetric water
     /// content × 1000 kg/m³ × 333.55 kJ/kg, IAPWS) zero or positive.
     pub fn new(
         conductivity: f64,
         frozen_conductivity: f64,
         heat_capacity: f64,
         frozen_heat_capacity: f64,
-        latent_heat_j_m3: f64,
+        latent_heat_j_per_m3: f64,
         freezing_interval_k: f64,
     ) -> Result<Self, String> {
         let positive = [
@@ -79,9 +79,9 @@ impl Material {
                 ));
             }
         }
-        if !(latent_heat_j_m3.is_finite() && latent_heat_j_m3 >= 0.0) {
+        if !(latent_heat_j_per_m3.is_finite() && latent_heat_j_per_m3 >= 0.0) {
             return Err(format!(
-                "the latent heat is {latent_heat_j_m3} J/m³; it must be zero or a positive finite number"
+                "the latent heat is {latent_heat_j_per_m3} J/m³; it must be zero or a positive finite number"
             ));
         }
         Ok(Self::from_parts(
@@ -89,7 +89,7 @@ impl Material {
             frozen_conductivity,
             heat_capacity,
             frozen_heat_capacity,
-            latent_heat_j_m3,
+            latent_heat_j_per_m3,
             freezing_interval_k,
         ))
     }
@@ -112,7 +112,7 @@ impl Material {
         frozen_conductivity: f64,
         heat_capacity: f64,
         frozen_heat_capacity: f64,
-        latent_heat_j_m3: f64,
+        latent_heat_j_per_m3: f64,
         freezing_interval_k: f64,
     ) -> Self {
         Self {
@@ -121,7 +121,7 @@ impl Material {
             c_unfrozen: heat_capacity,
             c_frozen: frozen_heat_capacity,
             c_mushy: 0.5 * (heat_capacity + frozen_heat_capacity),
-            latent: latent_heat_j_m3,
+            latent: latent_heat_j_per_m3,
             interval: freezing_interval_k,
         }
     }
@@ -147,7 +147,7 @@ impl Material {
     }
 
     /// Latent heat per unit volume, J/m³.
-    pub fn latent_heat_j_m3(&self) -> f64 {
+    pub fn latent_heat_j_per_m3(&self) -> f64 {
         self.latent
     }
 
@@ -178,7 +178,7 @@ impl Material {
     }
 
     /// Volumetric enthalpy H(T), J/m³, zero at 0 °C with all water liquid.
-    pub fn enthalpy_j_m3(&self, t_c: f64) -> f64 {
+    pub fn enthalpy_j_per_m3(&self, t_c: f64) -> f64 {
         if t_c >= 0.0 {
             self.c_unfrozen * t_c
         } else if t_c >= -self.interval {
@@ -188,14 +188,14 @@ impl Material {
         }
     }
 
-    /// Exact inverse of [`Self::enthalpy_j_m3`]: temperature (°C) for `h_j_m3`.
-    pub fn temperature_c(&self, h_j_m3: f64) -> f64 {
-        if h_j_m3 >= 0.0 {
-            h_j_m3 / self.c_unfrozen
-        } else if h_j_m3 >= self.h_solidus() {
-            h_j_m3 / self.c_apparent_mushy()
+    /// Exact inverse of [`Self::enthalpy_j_per_m3`]: temperature (°C) for `h_j_per_m3`.
+    pub fn temperature_c(&self, h_j_per_m3: f64) -> f64 {
+        if h_j_per_m3 >= 0.0 {
+            h_j_per_m3 / self.c_unfrozen
+        } else if h_j_per_m3 >= self.h_solidus() {
+            h_j_per_m3 / self.c_apparent_mushy()
         } else {
-            -self.interval + (h_j_m3 - self.h_solidus()) / self.c_frozen
+            -self.interval + (h_j_per_m3 - self.h_solidus()) / self.c_frozen
         }
     }
 
@@ -225,11 +225,11 @@ impl Material {
     }
 
     /// Swaminathan & Voller (1992) linearised enthalpy update (see the module
-    /// documentation): from the iterate `(h_j_m3, t_c)` and the solved temperature
+    /// documentation): from the iterate `(h_j_per_m3, t_c)` and the solved temperature
     /// `t_star_c` of the linear system built with `capacity(t_c)`, returns the new
     /// `(H, T)`; `H` changes by exactly `capacity(t_c)·(t_star_c − t_c)`.
-    pub fn linearised_update(&self, h_j_m3: f64, t_c: f64, t_star_c: f64) -> (f64, f64) {
-        let h = h_j_m3 + self.capacity(t_c) * (t_star_c - t_c);
+    pub fn linearised_update(&self, h_j_per_m3: f64, t_c: f64, t_star_c: f64) -> (f64, f64) {
+        let h = h_j_per_m3 + self.capacity(t_c) * (t_star_c - t_c);
         (h, self.temperature_c(h))
     }
 
@@ -253,11 +253,11 @@ mod tests {
     fn enthalpy_inverse_round_trips_through_all_three_ranges() {
         let m = Material::new(1.2, 2.0, 2.5e6, 1.9e6, 1.0e8, 0.5).unwrap();
         for &t in &[-12.0, -0.5, -0.3, -1e-9, 0.0, 1e-9, 4.0] {
-            let back = m.temperature_c(m.enthalpy_j_m3(t));
+            let back = m.temperature_c(m.enthalpy_j_per_m3(t));
             assert!((back - t).abs() < 1e-9, "{t} -> {back}");
         }
         // Latent heat plus mean sensible heat across the freezing range.
-        let dh = m.enthalpy_j_m3(0.0) - m.enthalpy_j_m3(-0.5);
+        let dh = m.enthalpy_j_per_m3(0.0) - m.enthalpy_j_per_m3(-0.5);
         assert!((dh - (1.0e8 + 0.5 * 2.2e6)).abs() < 1e-3);
     }
 

@@ -26,7 +26,7 @@
 //!   resistances; in r–z the radial half-cell resistance is the exact cylindrical
 //!   `ln(r_face/r_centre)/(2πk·Δz)`.
 //! * Pipes (planar), with the wall layers lumped in `R_wall` (m K/W, see
-//!   [`wall_resistance_m_k_w`]) between the fluid and the outer surface, which is
+//!   [`wall_resistance_m_k_per_w`]) between the fluid and the outer surface, which is
 //!   taken as isothermal at `T_w`:
 //!   - a pipe at least a fifth of its local cell size in diameter is cut out at its
 //!     true radius: cells whose centre lies inside the circle leave the domain, and
@@ -152,7 +152,7 @@ pub struct Pipe {
     pub outer_radius_m: f64,
     /// Resistance between the fluid and the outer surface, m·K/W (0: the outer
     /// surface is at the fluid temperature).
-    pub wall_resistance_m_k_w: f64,
+    pub wall_resistance_m_k_per_w: f64,
     /// Fluid temperature or heat rate.
     pub drive: Drive,
 }
@@ -166,7 +166,7 @@ pub struct Borehole {
     /// Depth of the bottom, m.
     pub bottom_m: f64,
     /// Borehole resistance between the fluid and the wall, m·K/W.
-    pub wall_resistance_m_k_w: f64,
+    pub wall_resistance_m_k_per_w: f64,
     /// Fluid temperature or heat rate per metre of borehole.
     pub drive: Drive,
 }
@@ -190,9 +190,9 @@ pub struct SectionModel {
     /// Surface temperature `T_s(t)`, °C.
     pub surface_c: TimeFunction,
     /// Resistance between `T_s` and the ground surface, m²K/W (0: Dirichlet).
-    pub surface_resistance_m2_k_w: f64,
+    pub surface_resistance_m2_k_per_w: f64,
     /// Upward heat flux entering at the bottom, W/m².
-    pub bottom_flux_w_m2: f64,
+    pub bottom_flux_w_per_m2: f64,
 }
 
 impl SectionModel {
@@ -214,8 +214,8 @@ impl SectionModel {
             pipes: Vec::new(),
             borehole: None,
             surface_c,
-            surface_resistance_m2_k_w: 0.0,
-            bottom_flux_w_m2: 0.0,
+            surface_resistance_m2_k_per_w: 0.0,
+            bottom_flux_w_per_m2: 0.0,
         }
     }
 }
@@ -224,7 +224,7 @@ impl SectionModel {
 /// radial conduction through a cylindrical shell, Carslaw & Jaeger 1959 §7.2).
 /// `inner_radius_m` is the bore; `layers` are `(thickness_m, conductivity_w_mk)`
 /// from the inside out.
-pub fn wall_resistance_m_k_w(inner_radius_m: f64, layers: &[(f64, f64)]) -> Result<f64, String> {
+pub fn wall_resistance_m_k_per_w(inner_radius_m: f64, layers: &[(f64, f64)]) -> Result<f64, String> {
     use crate::physics::buried_pipe::wall::{WallLayer, wall_resistance_m_k_per_w};
     let layers: Vec<WallLayer> = layers.iter().map(|&(t, k)| WallLayer::new(t, k)).collect();
     wall_resistance_m_k_per_w(inner_radius_m, &layers)
@@ -361,9 +361,9 @@ pub struct Snapshot {
     pub t_c: Vec<f64>,
     /// Heat-flux density `q = −k∇T` at the cell centres, W/m², across (towards
     /// +x or +r) and down (towards depth), same layout as `t_c`; NaN inside pipes.
-    /// See [`Stepper::heat_flux_w_m2`] for how it is formed from the face flows.
-    pub q_x_w_m2: Vec<f64>,
-    pub q_z_w_m2: Vec<f64>,
+    /// See [`Stepper::heat_flux_w_per_m2`] for how it is formed from the face flows.
+    pub q_x_w_per_m2: Vec<f64>,
+    pub q_z_w_per_m2: Vec<f64>,
 }
 
 /// Time series of one pipe or the borehole.
@@ -480,13 +480,13 @@ fn validate_model(model: &SectionModel) -> Result<(), String> {
     for (i, l) in model.layers[..model.layers.len() - 1].iter().enumerate() {
         check_positive(&format!("the thickness of layer {i}"), l.thickness_m)?;
     }
-    if !(model.surface_resistance_m2_k_w.is_finite() && model.surface_resistance_m2_k_w >= 0.0) {
+    if !(model.surface_resistance_m2_k_per_w.is_finite() && model.surface_resistance_m2_k_per_w >= 0.0) {
         return Err(format!(
             "the surface resistance is {} m²K/W; it must be zero or positive",
-            model.surface_resistance_m2_k_w
+            model.surface_resistance_m2_k_per_w
         ));
     }
-    if !model.bottom_flux_w_m2.is_finite() {
+    if !model.bottom_flux_w_per_m2.is_finite() {
         return Err("the bottom heat flux must be a finite number of W/m²".into());
     }
     let (x_lo, x_hi) = x_range(model);
@@ -511,7 +511,7 @@ fn validate_model(model: &SectionModel) -> Result<(), String> {
             }
             for (i, p) in model.pipes.iter().enumerate() {
                 check_positive(&format!("the outer radius of pipe {i}"), p.outer_radius_m)?;
-                if !(p.wall_resistance_m_k_w.is_finite() && p.wall_resistance_m_k_w >= 0.0) {
+                if !(p.wall_resistance_m_k_per_w.is_finite() && p.wall_resistance_m_k_per_w >= 0.0) {
                     return Err(format!("pipe {i}: the wall resistance must be zero or positive"));
                 }
                 let r = p.outer_radius_m;
@@ -534,7 +534,7 @@ fn validate_model(model: &SectionModel) -> Result<(), String> {
             }
             if let Some(b) = &model.borehole {
                 check_positive("the borehole radius", b.radius_m)?;
-                if !(b.wall_resistance_m_k_w.is_finite() && b.wall_resistance_m_k_w >= 0.0) {
+                if !(b.wall_resistance_m_k_per_w.is_finite() && b.wall_resistance_m_k_per_w >= 0.0) {
                     return Err("the borehole resistance must be zero or positive".into());
                 }
                 if !(b.top_m >= 0.0
@@ -731,7 +731,7 @@ impl Mesh {
             .map(|ix| {
                 (
                     0.5 * zw[0] / area_top(ix),
-                    model.surface_resistance_m2_k_w / area_top(ix),
+                    model.surface_resistance_m2_k_per_w / area_top(ix),
                 )
             })
             .collect();
@@ -933,10 +933,10 @@ impl<'a> Drives<'a> {
         let mut drives: Vec<(&Drive, f64)> = model
             .pipes
             .iter()
-            .map(|p| (&p.drive, p.wall_resistance_m_k_w))
+            .map(|p| (&p.drive, p.wall_resistance_m_k_per_w))
             .collect();
         if let Some(b) = &model.borehole {
-            drives.push((&b.drive, b.wall_resistance_m_k_w));
+            drives.push((&b.drive, b.wall_resistance_m_k_per_w));
         }
         Self { drives }
     }
@@ -1033,7 +1033,7 @@ struct Stepper<'m> {
     solves: usize,
     /// Freezing iterations (cell-system solves without the wall responses).
     iterations: usize,
-    bottom_flux_w_m2: f64,
+    bottom_flux_w_per_m2: f64,
 }
 
 /// Heat flows of a solved iteration, W (or W/m).
@@ -1046,7 +1046,7 @@ struct Flows {
 }
 
 impl<'m> Stepper<'m> {
-    fn new(mesh: &'m Mesh, solver: Box<dyn CellSolver>, t: Vec<f64>, bottom_flux_w_m2: f64) -> Self {
+    fn new(mesh: &'m Mesh, solver: Box<dyn CellSolver>, t: Vec<f64>, bottom_flux_w_per_m2: f64) -> Self {
         let n = mesh.cells();
         let eliminate_walls = solver.eliminates_walls();
         let mut link_factor = vec![0.0; n];
@@ -1058,7 +1058,7 @@ impl<'m> Stepper<'m> {
         let h = t
             .iter()
             .zip(&mesh.material)
-            .map(|(&t, m)| m.enthalpy_j_m3(t))
+            .map(|(&t, m)| m.enthalpy_j_per_m3(t))
             .collect();
         Self {
             mesh,
@@ -1100,7 +1100,7 @@ impl<'m> Stepper<'m> {
             work: vec![0.0; n],
             solves: 0,
             iterations: 0,
-            bottom_flux_w_m2,
+            bottom_flux_w_per_m2,
         }
     }
 
@@ -1345,7 +1345,7 @@ impl<'m> Stepper<'m> {
             }
             let bottom = (mesh.nz - 1) * nx + ix;
             if mesh.active[bottom] {
-                self.r[bottom] += mesh.bottom_area[ix] * self.bottom_flux_w_m2;
+                self.r[bottom] += mesh.bottom_area[ix] * self.bottom_flux_w_per_m2;
             }
         }
         for (p, wall) in walls.iter().enumerate() {
@@ -1527,7 +1527,7 @@ impl<'m> Stepper<'m> {
                 flows.surface += self.surface_conductance(ix) * (surface_c - t[ix]);
             }
             if mesh.active[(mesh.nz - 1) * nx + ix] {
-                flows.bottom += mesh.bottom_area[ix] * self.bottom_flux_w_m2;
+                flows.bottom += mesh.bottom_area[ix] * self.bottom_flux_w_per_m2;
             }
         }
         for (p, wall) in walls.iter().enumerate() {
@@ -1762,8 +1762,8 @@ fn new_solver(kind: SolverKind, mesh: &Mesh) -> Result<Box<dyn CellSolver>, Stri
 /// Fluid temperature of pipe `p` given its wall temperature and heat rate (W/m).
 fn fluid_c(model: &SectionModel, p: usize, t_s: f64, wall_c: f64, q_w_per_m: f64) -> f64 {
     let (drive, r_wall) = match (model.pipes.get(p), &model.borehole) {
-        (Some(pipe), _) => (&pipe.drive, pipe.wall_resistance_m_k_w),
-        (None, Some(b)) => (&b.drive, b.wall_resistance_m_k_w),
+        (Some(pipe), _) => (&pipe.drive, pipe.wall_resistance_m_k_per_w),
+        (None, Some(b)) => (&b.drive, b.wall_resistance_m_k_per_w),
         (None, None) => return f64::NAN,
     };
     match drive {
@@ -1782,7 +1782,7 @@ impl Stepper<'_> {
     /// sides count with zero flux and the bottom with the geothermal flux, while
     /// faces to a pipe and the ground surface are left out (one-sided value).
     /// NaN inside pipes.
-    fn heat_flux_w_m2(&self, t: &[f64]) -> (Vec<f64>, Vec<f64>) {
+    fn heat_flux_w_per_m2(&self, t: &[f64]) -> (Vec<f64>, Vec<f64>) {
         let mesh = self.mesh;
         let (nx, nz) = (mesh.nx, mesh.nz);
         let k = &self.coefficients;
@@ -1838,7 +1838,7 @@ impl Stepper<'_> {
                 };
                 let north = if iz == 0 { None } else { z_face(c - nx) };
                 let south = if iz + 1 == nz {
-                    Some(-self.bottom_flux_w_m2)
+                    Some(-self.bottom_flux_w_per_m2)
                 } else {
                     z_face(c)
                 };
@@ -1897,14 +1897,14 @@ impl Stepper<'_> {
 }
 
 fn snapshot(stepper: &Stepper, time_s: f64, t_c: Vec<f64>) -> Snapshot {
-    let (q_x_w_m2, q_z_w_m2) = stepper.heat_flux_w_m2(&t_c);
+    let (q_x_w_per_m2, q_z_w_per_m2) = stepper.heat_flux_w_per_m2(&t_c);
     Snapshot {
         time_s,
         x_m: stepper.mesh.x.centres_m().to_vec(),
         z_m: stepper.mesh.z.centres_m().to_vec(),
         t_c,
-        q_x_w_m2,
-        q_z_w_m2,
+        q_x_w_per_m2,
+        q_z_w_per_m2,
     }
 }
 
@@ -1922,7 +1922,12 @@ pub fn solve_transient(model: &SectionModel, opts: &TransientOptions) -> Result<
     validate_transient(model, opts)?;
     let mesh = Mesh::build(model, &opts.grid)?;
     let t0 = initial_field(&mesh, &opts.initial)?;
-    let mut stepper = Stepper::new(&mesh, new_solver(opts.solver, &mesh)?, t0, model.bottom_flux_w_m2);
+    let mut stepper = Stepper::new(
+        &mesh,
+        new_solver(opts.solver, &mesh)?,
+        t0,
+        model.bottom_flux_w_per_m2,
+    );
     stepper.lag_conductivity = true;
     let drives = Drives::of(model);
     let limits = IterationLimits {
@@ -2012,7 +2017,7 @@ pub fn solve_steady(model: &SectionModel, grid: &GridOptions, t_s: f64) -> Resul
         &mesh,
         solver,
         vec![surface_c; mesh.cells()],
-        model.bottom_flux_w_m2,
+        model.bottom_flux_w_per_m2,
     );
     let drives = Drives::of(model);
     let walls = drives.walls(&mesh.couplings, t_s)?;
@@ -2033,7 +2038,7 @@ pub fn solve_steady(model: &SectionModel, grid: &GridOptions, t_s: f64) -> Resul
             if mesh.active[c] {
                 change = change.max((stepper.delta[c] - stepper.t[c]).abs());
                 stepper.t[c] = stepper.delta[c];
-                stepper.h[c] = mesh.material[c].enthalpy_j_m3(stepper.t[c]);
+                stepper.h[c] = mesh.material[c].enthalpy_j_per_m3(stepper.t[c]);
             }
         }
         if !change.is_finite() {

@@ -144,23 +144,23 @@ impl Fluid {
     }
 
     /// Density at `t_c` (°C), kg/m³.
-    pub fn density_kg_m3(&self, t_c: f64) -> f64 {
+    pub fn density_kg_per_m3(&self, t_c: f64) -> f64 {
         match self.mixture {
-            Mixture::Water => water_density_kg_m3(t_c),
+            Mixture::Water => water_density_kg_per_m3(t_c),
             Mixture::PropyleneGlycol => {
-                conde_linear(&CONDE_PROPYLENE_GLYCOL.density_kg_m3, self.mass_fraction, t_c)
+                conde_linear(&CONDE_PROPYLENE_GLYCOL.density_kg_per_m3, self.mass_fraction, t_c)
             }
             Mixture::EthyleneGlycol => {
-                conde_linear(&CONDE_ETHYLENE_GLYCOL.density_kg_m3, self.mass_fraction, t_c)
+                conde_linear(&CONDE_ETHYLENE_GLYCOL.density_kg_per_m3, self.mass_fraction, t_c)
             }
-            Mixture::Ethanol => ethanol_density_kg_m3(self.mass_fraction, t_c),
+            Mixture::Ethanol => ethanol_density_kg_per_m3(self.mass_fraction, t_c),
         }
     }
 
     /// Isobaric specific heat at `t_c` (°C), J/(kg K).
-    pub fn specific_heat_j_kg_k(&self, t_c: f64) -> f64 {
+    pub fn specific_heat_j_per_kg_k(&self, t_c: f64) -> f64 {
         match self.mixture {
-            Mixture::Water => water_specific_heat_j_kg_k(t_c),
+            Mixture::Water => water_specific_heat_j_per_kg_k(t_c),
             Mixture::PropyleneGlycol => {
                 1e3 * conde_linear(
                     &CONDE_PROPYLENE_GLYCOL.specific_heat_kj_kg_k,
@@ -175,23 +175,25 @@ impl Fluid {
                     t_c,
                 )
             }
-            Mixture::Ethanol => ethanol_specific_heat_j_kg_k(self.mass_fraction, t_c),
+            Mixture::Ethanol => ethanol_specific_heat_j_per_kg_k(self.mass_fraction, t_c),
         }
     }
 
     /// Thermal conductivity at `t_c` (°C), W/(m K).
-    pub fn conductivity_w_m_k(&self, t_c: f64) -> f64 {
+    pub fn conductivity_w_per_m_k(&self, t_c: f64) -> f64 {
         match self.mixture {
-            Mixture::Water => water_conductivity_w_m_k(t_c),
+            Mixture::Water => water_conductivity_w_per_m_k(t_c),
             Mixture::PropyleneGlycol => conde_linear(
-                &CONDE_PROPYLENE_GLYCOL.conductivity_w_m_k,
+                &CONDE_PROPYLENE_GLYCOL.conductivity_w_per_m_k,
                 self.mass_fraction,
                 t_c,
             ),
-            Mixture::EthyleneGlycol => {
-                conde_linear(&CONDE_ETHYLENE_GLYCOL.conductivity_w_m_k, self.mass_fraction, t_c)
-            }
-            Mixture::Ethanol => ethanol_conductivity_w_m_k(self.mass_fraction, t_c),
+            Mixture::EthyleneGlycol => conde_linear(
+                &CONDE_ETHYLENE_GLYCOL.conductivity_w_per_m_k,
+                self.mass_fraction,
+                t_c,
+            ),
+            Mixture::Ethanol => ethanol_conductivity_w_per_m_k(self.mass_fraction, t_c),
         }
     }
 
@@ -257,7 +259,7 @@ fn interpolate_linear(xs: &[f64], ys: &[f64], x: f64) -> f64 {
 /// (coefficients from memory; they reproduce 998.20 kg/m³ at 20 °C and agree
 /// with IAPWS-95 to ~10 ppm over 0–100 °C). Also used slightly below 0 °C
 /// for the water part of ethanol solutions (supercooled extrapolation).
-pub fn water_density_kg_m3(t_c: f64) -> f64 {
+pub fn water_density_kg_per_m3(t_c: f64) -> f64 {
     let t = t_c;
     let numerator = 999.839_52 + 16.945_176 * t - 7.987_040_1e-3 * t.powi(2) - 46.170_461e-6 * t.powi(3)
         + 105.563_02e-9 * t.powi(4)
@@ -265,19 +267,19 @@ pub fn water_density_kg_m3(t_c: f64) -> f64 {
     numerator / (1.0 + 16.879_850e-3 * t)
 }
 
-/// Temperatures of [`WATER_CP_J_KG_K`], °C.
+/// Temperatures of [`WATER_CP_J_PER_KG_K`], °C.
 const WATER_CP_T_C: [f64; 10] = [0.0, 10.0, 20.0, 30.0, 40.0, 50.0, 60.0, 70.0, 80.0, 90.0];
 /// Isobaric specific heat of liquid water, J/(kg K), IAPWS-95 (Wagner & Pruss
 /// 2002) at 0.1 MPa; the 0 °C entry is the 0.01 °C value. From memory
 /// (values as printed in common IAPWS-95 tables, 5 significant figures).
-const WATER_CP_J_KG_K: [f64; 10] = [
+const WATER_CP_J_PER_KG_K: [f64; 10] = [
     4219.9, 4195.5, 4184.4, 4180.1, 4179.6, 4181.5, 4185.1, 4190.2, 4196.9, 4205.3,
 ];
 
 /// Isobaric specific heat of liquid water at 0.1 MPa, J/(kg K), `t_c` in °C:
-/// linear interpolation in the IAPWS-95 table [`WATER_CP_J_KG_K`].
-pub fn water_specific_heat_j_kg_k(t_c: f64) -> f64 {
-    interpolate_linear(&WATER_CP_T_C, &WATER_CP_J_KG_K, t_c)
+/// linear interpolation in the IAPWS-95 table [`WATER_CP_J_PER_KG_K`].
+pub fn water_specific_heat_j_per_kg_k(t_c: f64) -> f64 {
+    interpolate_linear(&WATER_CP_T_C, &WATER_CP_J_PER_KG_K, t_c)
 }
 
 /// Thermal conductivity of liquid water at 0.1 MPa, W/(m K), `t_c` in °C.
@@ -286,7 +288,7 @@ pub fn water_specific_heat_j_kg_k(t_c: f64) -> f64 {
 /// conductivity of water", J. Phys. Chem. Ref. Data 24 (1995) 1377, eq. (4):
 /// λ/λ* = −1.48445 + 4.12292 T/T* − 1.63866 (T/T*)², λ* = 0.6065 W/(m K),
 /// T* = 298.15 K; stated range 274–370 K (from memory).
-pub fn water_conductivity_w_m_k(t_c: f64) -> f64 {
+pub fn water_conductivity_w_per_m_k(t_c: f64) -> f64 {
     let tr = (t_c + KELVIN_OFFSET) / 298.15;
     0.6065 * (-1.48445 + 4.12292 * tr - 1.63866 * tr * tr)
 }
@@ -331,9 +333,9 @@ type CondeCoefficients = [f64; 5];
 
 /// The Conde (2011) model of one glycol–water solution.
 struct CondeSolution {
-    density_kg_m3: CondeCoefficients,
+    density_kg_per_m3: CondeCoefficients,
     specific_heat_kj_kg_k: CondeCoefficients,
-    conductivity_w_m_k: CondeCoefficients,
+    conductivity_w_per_m_k: CondeCoefficients,
     /// Correlates ln(μ / Pa s).
     ln_viscosity_pa_s: CondeCoefficients,
 }
@@ -344,9 +346,9 @@ struct CondeSolution {
 /// 232.71643) the value shared by two of three copies is used — the
 /// difference is < 0.01 kg/m³.
 const CONDE_ETHYLENE_GLYCOL: CondeSolution = CondeSolution {
-    density_kg_m3: [658.49825, -54.81501, 664.71643, 232.72605, -322.61661],
+    density_kg_per_m3: [658.49825, -54.81501, 664.71643, 232.72605, -322.61661],
     specific_heat_kj_kg_k: [5.36449, 0.78863, -2.59001, -2.73187, 1.43759],
-    conductivity_w_m_k: [0.83818, -1.37620, -0.07629, 1.07720, -0.20174],
+    conductivity_w_per_m_k: [0.83818, -1.37620, -0.07629, 1.07720, -0.20174],
     ln_viscosity_pa_s: [-4.63024, -2.14817, -12.70106, 5.40536, 10.98990],
 };
 
@@ -354,9 +356,9 @@ const CONDE_ETHYLENE_GLYCOL: CondeSolution = CondeSolution {
 /// (density A5: −472.22510 in three of four transcriptions, −472.2551 in one;
 /// the majority value is used, difference < 0.03 kg/m³).
 const CONDE_PROPYLENE_GLYCOL: CondeSolution = CondeSolution {
-    density_kg_m3: [508.41109, -182.40820, 965.76507, 280.29104, -472.22510],
+    density_kg_per_m3: [508.41109, -182.40820, 965.76507, 280.29104, -472.22510],
     specific_heat_kj_kg_k: [4.47642, 0.60863, -0.71497, -1.93855, 0.47873],
-    conductivity_w_m_k: [1.18886, -1.49110, -0.69682, 1.13633, 0.06735],
+    conductivity_w_per_m_k: [1.18886, -1.49110, -0.69682, 1.13633, 0.06735],
     ln_viscosity_pa_s: [-1.02798, -10.03298, -19.93497, 14.65802, 14.62050],
 };
 
@@ -417,21 +419,21 @@ fn ethanol_freezing_point_c(w: f64) -> f64 {
     interpolate_linear(&ETHANOL_FREEZING_W, &ETHANOL_FREEZING_C, w)
 }
 
-/// Mass fractions of [`ETHANOL_DENSITY_20C_KG_M3`].
+/// Mass fractions of [`ETHANOL_DENSITY_20C_KG_PER_M3`].
 const ETHANOL_DENSITY_W: [f64; 11] = [0.0, 0.05, 0.10, 0.15, 0.20, 0.25, 0.30, 0.35, 0.40, 0.45, 0.50];
 /// Density of ethanol–water at 20 °C, kg/m³: N. S. Osborne, E. C. McKelvey &
 /// H. W. Bearce, Bull. Bur. Stand. 9 (1913) 327, as tabulated in the CRC
 /// Handbook and Perry's Handbook (from memory; the 5 %, 10 %, 45 % and 50 %
 /// entries were confirmed against reprints of the table, and the rest agree
 /// with Lange Table 5.13's 20/4 °C specific gravities to 1e-4).
-const ETHANOL_DENSITY_20C_KG_M3: [f64; 11] = [
+const ETHANOL_DENSITY_20C_KG_PER_M3: [f64; 11] = [
     998.23, 989.38, 981.87, 975.14, 968.64, 961.68, 953.82, 944.94, 935.18, 924.72, 913.84,
 ];
 
 /// Density of pure liquid ethanol, kg/m³, `t_c` in °C: quadratic through
 /// Mendeleev's values 806.25 (0 °C), 793.67 (15 °C), 780.96 (30 °C) kg/m³
 /// (as quoted by Simmonds, "Alcohol", 1919, ch. "Specific gravity").
-fn pure_ethanol_density_kg_m3(t_c: f64) -> f64 {
+fn pure_ethanol_density_kg_per_m3(t_c: f64) -> f64 {
     interpolate_quadratic([0.0, 15.0, 30.0], [806.25, 793.67, 780.96], t_c)
 }
 
@@ -446,7 +448,7 @@ fn interpolate_quadratic(xs: [f64; 3], ys: [f64; 3], x: f64) -> f64 {
 /// Specific volume of an ideal (no volume change on mixing) ethanol–water
 /// mixture, m³/kg.
 fn ideal_mixture_specific_volume_m3_kg(w: f64, t_c: f64) -> f64 {
-    w / pure_ethanol_density_kg_m3(t_c) + (1.0 - w) / water_density_kg_m3(t_c)
+    w / pure_ethanol_density_kg_per_m3(t_c) + (1.0 - w) / water_density_kg_per_m3(t_c)
 }
 
 /// Temperatures of [`OSBORNE_EXPANSION_ROWS`], °C.
@@ -483,8 +485,8 @@ fn excess_volume_temperature_factor(t_c: f64) -> f64 {
 /// ([`excess_volume_temperature_factor`]) comes from their 45–50 % columns and
 /// is assumed to hold at lower concentrations. Below 10 °C f(T) is an
 /// extrapolation of this module.
-fn ethanol_density_kg_m3(w: f64, t_c: f64) -> f64 {
-    let rho_20 = interpolate_linear(&ETHANOL_DENSITY_W, &ETHANOL_DENSITY_20C_KG_M3, w);
+fn ethanol_density_kg_per_m3(w: f64, t_c: f64) -> f64 {
+    let rho_20 = interpolate_linear(&ETHANOL_DENSITY_W, &ETHANOL_DENSITY_20C_KG_PER_M3, w);
     let excess_20 = 1.0 / rho_20 - ideal_mixture_specific_volume_m3_kg(w, 20.0);
     1.0 / (ideal_mixture_specific_volume_m3_kg(w, t_c) + excess_20 * excess_volume_temperature_factor(t_c))
 }
@@ -561,12 +563,12 @@ const ETHANOL_CP_CAL_G_K: [[f64; 3]; 3] = [[1.05, 1.02, 1.02], [1.02, 1.03, 1.03
 /// Specific heat of ethanol–water, J/(kg K), mass fraction `w`, `t_c` °C.
 ///
 /// Rows of the ICT table are converted to mass fractions; the pure-water row
-/// is [`water_specific_heat_j_kg_k`]. Each row is interpolated linearly in
+/// is [`water_specific_heat_j_per_kg_k`]. Each row is interpolated linearly in
 /// temperature (extended linearly outside 3–41 °C), then the rows are
 /// interpolated linearly in mass fraction.
-fn ethanol_specific_heat_j_kg_k(w: f64, t_c: f64) -> f64 {
+fn ethanol_specific_heat_j_per_kg_k(w: f64, t_c: f64) -> f64 {
     let mut ws = vec![0.0];
-    let mut cps = vec![water_specific_heat_j_kg_k(t_c)];
+    let mut cps = vec![water_specific_heat_j_per_kg_k(t_c)];
     for (x, row) in ETHANOL_CP_X.iter().zip(ETHANOL_CP_CAL_G_K.iter()) {
         ws.push(ethanol_mass_fraction_from_mole_fraction(*x));
         cps.push(1e3 * CALORIE_15_J * interpolate_linear(&ETHANOL_CP_T_C, row, t_c));
@@ -577,7 +579,7 @@ fn ethanol_specific_heat_j_kg_k(w: f64, t_c: f64) -> f64 {
 /// Thermal conductivity of pure liquid ethanol, W/(m K), `t_c` in °C:
 /// 0.168 W/(m K) at 20 °C falling 2.5e-4 W/(m K) per kelvin (from memory,
 /// ±3 %, consistent with the Assael et al. reference correlation).
-fn pure_ethanol_conductivity_w_m_k(t_c: f64) -> f64 {
+fn pure_ethanol_conductivity_w_per_m_k(t_c: f64) -> f64 {
     0.168 - 2.5e-4 * (t_c - 20.0)
 }
 
@@ -587,12 +589,12 @@ fn pure_ethanol_conductivity_w_m_k(t_c: f64) -> f64 {
 /// − 0.72 w1 w2 |λ2 − λ1| (B. E. Poling, J. M. Prausnitz & J. P. O'Connell,
 /// The Properties of Gases and Liquids, 5th ed., 2001, Sec. 10-12, eq.
 /// 10-12.1; equation number from memory), with water from Ramires et al.
-/// (1995) and ethanol from [`pure_ethanol_conductivity_w_m_k`].
-fn ethanol_conductivity_w_m_k(w: f64, t_c: f64) -> f64 {
+/// (1995) and ethanol from [`pure_ethanol_conductivity_w_per_m_k`].
+fn ethanol_conductivity_w_per_m_k(w: f64, t_c: f64) -> f64 {
     filippov_mixture_conductivity(
         w,
-        pure_ethanol_conductivity_w_m_k(t_c),
-        water_conductivity_w_m_k(t_c),
+        pure_ethanol_conductivity_w_per_m_k(t_c),
+        water_conductivity_w_per_m_k(t_c),
     )
 }
 
@@ -635,7 +637,7 @@ mod tests {
             (0.50, 35.0, 901.68),
         ];
         for (w, t, rho) in published {
-            let ours = ethanol_density_kg_m3(w, t);
+            let ours = ethanol_density_kg_per_m3(w, t);
             assert!(
                 (ours / rho - 1.0).abs() < 2e-4,
                 "w={w} t={t}: ours {ours:.2}, Osborne {rho}"
@@ -645,8 +647,8 @@ mod tests {
 
     #[test]
     fn ethanol_density_reproduces_its_20c_table() {
-        for (w, rho) in ETHANOL_DENSITY_W.iter().zip(ETHANOL_DENSITY_20C_KG_M3) {
-            assert!((ethanol_density_kg_m3(*w, 20.0) - rho).abs() < 1e-9);
+        for (w, rho) in ETHANOL_DENSITY_W.iter().zip(ETHANOL_DENSITY_20C_KG_PER_M3) {
+            assert!((ethanol_density_kg_per_m3(*w, 20.0) - rho).abs() < 1e-9);
         }
     }
 

@@ -92,21 +92,21 @@ impl AnnualWave {
 
     /// Undisturbed ground temperature (°C) at depth `z_m` (m, positive down) and time
     /// `t_s` (s after 1 January 00:00) in a homogeneous soil of thermal diffusivity
-    /// `diffusivity_m2_s` (m²/s) with steady geothermal gradient `gradient_k_per_m`
+    /// `diffusivity_m2_per_s` (m²/s) with steady geothermal gradient `gradient_k_per_m`
     /// (K/m, = q_geo/k, positive when warmer at depth).
     ///
     /// `T = T_mean + g·z − A·exp(−z/d)·cos(ω(t − t_min) − z/d)`,
     /// Carslaw & Jaeger 1959 §2.6; Kusuda & Achenbach 1965.
     /// A non-positive diffusivity gives NaN.
-    pub fn ground_c(&self, z_m: f64, t_s: f64, diffusivity_m2_s: f64, gradient_k_per_m: f64) -> f64 {
-        let d = damping_depth_m(diffusivity_m2_s, self.period_s);
+    pub fn ground_c(&self, z_m: f64, t_s: f64, diffusivity_m2_per_s: f64, gradient_k_per_m: f64) -> f64 {
+        let d = damping_depth_m(diffusivity_m2_per_s, self.period_s);
         self.mean_c + gradient_k_per_m * z_m + self.periodic_part_k(t_s, z_m / d)
     }
 
     /// Annual `(mean, min, max)` temperature (°C) at depth `z_m` (m):
     /// mean `T_mean + g·z`, swing `±A·exp(−z/d)` (Carslaw & Jaeger 1959 §2.6).
-    pub fn envelope(&self, z_m: f64, diffusivity_m2_s: f64, gradient_k_per_m: f64) -> (f64, f64, f64) {
-        let d = damping_depth_m(diffusivity_m2_s, self.period_s);
+    pub fn envelope(&self, z_m: f64, diffusivity_m2_per_s: f64, gradient_k_per_m: f64) -> (f64, f64, f64) {
+        let d = damping_depth_m(diffusivity_m2_per_s, self.period_s);
         let mean = self.mean_c + gradient_k_per_m * z_m;
         let swing = self.amplitude_k * (-z_m / d).exp();
         (mean, mean - swing, mean + swing)
@@ -114,11 +114,11 @@ impl AnnualWave {
 }
 
 /// Damping depth `d = sqrt(2α/ω) = sqrt(α·P/π)` (m) for diffusivity
-/// `diffusivity_m2_s` (m²/s) and period `period_s` (s); the amplitude falls by 1/e
+/// `diffusivity_m2_per_s` (m²/s) and period `period_s` (s); the amplitude falls by 1/e
 /// over each `d`. Carslaw & Jaeger 1959 §2.6. Non-positive inputs give NaN.
-pub fn damping_depth_m(diffusivity_m2_s: f64, period_s: f64) -> f64 {
-    if diffusivity_m2_s > 0.0 && period_s > 0.0 {
-        (diffusivity_m2_s * period_s / PI).sqrt()
+pub fn damping_depth_m(diffusivity_m2_per_s: f64, period_s: f64) -> f64 {
+    if diffusivity_m2_per_s > 0.0 && period_s > 0.0 {
+        (diffusivity_m2_per_s * period_s / PI).sqrt()
     } else {
         f64::NAN
     }
@@ -126,6 +126,6 @@ pub fn damping_depth_m(diffusivity_m2_s: f64, period_s: f64) -> f64 {
 
 /// Time lag (s) of the temperature extremes at depth `z_m` (m) behind the surface:
 /// `z/d · P/(2π)`, i.e. `P/(2π)` per damping depth. Carslaw & Jaeger 1959 §2.6.
-pub fn lag_s(z_m: f64, diffusivity_m2_s: f64, period_s: f64) -> f64 {
-    z_m / damping_depth_m(diffusivity_m2_s, period_s) * period_s / (2.0 * PI)
+pub fn lag_s(z_m: f64, diffusivity_m2_per_s: f64, period_s: f64) -> f64 {
+    z_m / damping_depth_m(diffusivity_m2_per_s, period_s) * period_s / (2.0 * PI)
 }

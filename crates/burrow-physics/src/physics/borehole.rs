@@ -72,9 +72,9 @@ pub struct PipeInBorehole {
 pub struct CrossSection {
     pub borehole_radius_m: f64,
     /// Grout (backfill) conductivity λ_b, W/(m K).
-    pub grout_conductivity_w_m_k: f64,
+    pub grout_conductivity_w_per_m_k: f64,
     /// Ground conductivity λ, W/(m K).
-    pub ground_conductivity_w_m_k: f64,
+    pub ground_conductivity_w_per_m_k: f64,
     pub pipes: Vec<PipeInBorehole>,
 }
 
@@ -151,8 +151,11 @@ impl CrossSection {
     /// inside the borehole and clear of every other pipe, R_p ≥ 0.
     pub fn validate(&self) -> Result<(), String> {
         positive("borehole radius (m)", self.borehole_radius_m)?;
-        positive("grout conductivity (W/(m K))", self.grout_conductivity_w_m_k)?;
-        positive("ground conductivity (W/(m K))", self.ground_conductivity_w_m_k)?;
+        positive("grout conductivity (W/(m K))", self.grout_conductivity_w_per_m_k)?;
+        positive(
+            "ground conductivity (W/(m K))",
+            self.ground_conductivity_w_per_m_k,
+        )?;
         if self.pipes.is_empty() {
             return Err("the cross-section has no pipe; give at least one".into());
         }
@@ -188,13 +191,13 @@ impl CrossSection {
 
     /// σ = (λ_b − λ)/(λ_b + λ).
     fn sigma(&self) -> f64 {
-        (self.grout_conductivity_w_m_k - self.ground_conductivity_w_m_k)
-            / (self.grout_conductivity_w_m_k + self.ground_conductivity_w_m_k)
+        (self.grout_conductivity_w_per_m_k - self.ground_conductivity_w_per_m_k)
+            / (self.grout_conductivity_w_per_m_k + self.ground_conductivity_w_per_m_k)
     }
 
     /// β_n = 2π λ_b R_p,n.
     fn beta(&self, n: usize) -> f64 {
-        2.0 * PI * self.grout_conductivity_w_m_k * self.pipes[n].pipe_resistance_m_k_per_w
+        2.0 * PI * self.grout_conductivity_w_per_m_k * self.pipes[n].pipe_resistance_m_k_per_w
     }
 
     fn centre(&self, n: usize) -> C64 {
@@ -227,7 +230,7 @@ impl CrossSection {
     /// T_fn − T_b for heat flows `q` and solved multipoles: R_p q_n + (q_n/2πλ_b) ln(r_b/r_p)
     /// + Re F_n0.
     fn fluid_temperature_rise(&self, n: usize, q: &[f64], multipoles: &[C64], order: usize) -> f64 {
-        let c = 1.0 / (2.0 * PI * self.grout_conductivity_w_m_k);
+        let c = 1.0 / (2.0 * PI * self.grout_conductivity_w_per_m_k);
         let p = &self.pipes[n];
         let f0 = self.regular_coefficients(n, q, multipoles, order, 0)[0];
         p.pipe_resistance_m_k_per_w * q[n]
@@ -247,7 +250,7 @@ impl CrossSection {
         k_max: usize,
     ) -> Vec<C64> {
         let rb2 = self.borehole_radius_m.powi(2);
-        let c = 1.0 / (2.0 * PI * self.grout_conductivity_w_m_k);
+        let c = 1.0 / (2.0 * PI * self.grout_conductivity_w_per_m_k);
         let sigma = self.sigma();
         let zn = self.centre(n);
         let rn = self.pipes[n].outer_radius_m;
@@ -399,8 +402,8 @@ pub struct SingleU {
     pub pipe_outer_radius_m: f64,
     /// Shank spacing s, centre to centre of the two legs, m (x_c = s/2).
     pub shank_spacing_m: f64,
-    pub grout_conductivity_w_m_k: f64,
-    pub ground_conductivity_w_m_k: f64,
+    pub grout_conductivity_w_per_m_k: f64,
+    pub ground_conductivity_w_per_m_k: f64,
     /// R_p of one pipe (film plus wall), m K/W.
     pub pipe_resistance_m_k_per_w: f64,
 }
@@ -416,8 +419,8 @@ impl SingleU {
         };
         CrossSection {
             borehole_radius_m: self.borehole_radius_m,
-            grout_conductivity_w_m_k: self.grout_conductivity_w_m_k,
-            ground_conductivity_w_m_k: self.ground_conductivity_w_m_k,
+            grout_conductivity_w_per_m_k: self.grout_conductivity_w_per_m_k,
+            ground_conductivity_w_per_m_k: self.ground_conductivity_w_per_m_k,
             pipes: vec![
                 pipe(0.5 * self.shank_spacing_m),
                 pipe(-0.5 * self.shank_spacing_m),
@@ -496,9 +499,9 @@ impl SingleU {
     }
 
     fn grout_beta_sigma(&self) -> (f64, f64, f64) {
-        let lb = self.grout_conductivity_w_m_k;
+        let lb = self.grout_conductivity_w_per_m_k;
         let beta = 2.0 * PI * lb * self.pipe_resistance_m_k_per_w;
-        let sigma = (lb - self.ground_conductivity_w_m_k) / (lb + self.ground_conductivity_w_m_k);
+        let sigma = (lb - self.ground_conductivity_w_per_m_k) / (lb + self.ground_conductivity_w_per_m_k);
         (lb, beta, sigma)
     }
 }
@@ -525,8 +528,8 @@ pub struct DoubleU {
     /// Centre-to-centre distance between diagonally opposite pipes, m (x_c = s/2; neighbours are
     /// √2 x_c apart).
     pub shank_spacing_m: f64,
-    pub grout_conductivity_w_m_k: f64,
-    pub ground_conductivity_w_m_k: f64,
+    pub grout_conductivity_w_per_m_k: f64,
+    pub ground_conductivity_w_per_m_k: f64,
     /// R_p of one pipe (film plus wall), m K/W, with the flow of one circuit.
     pub pipe_resistance_m_k_per_w: f64,
     pub pairing: DoubleUPairing,
@@ -547,8 +550,8 @@ impl DoubleU {
             .collect();
         CrossSection {
             borehole_radius_m: self.borehole_radius_m,
-            grout_conductivity_w_m_k: self.grout_conductivity_w_m_k,
-            ground_conductivity_w_m_k: self.ground_conductivity_w_m_k,
+            grout_conductivity_w_per_m_k: self.grout_conductivity_w_per_m_k,
+            ground_conductivity_w_per_m_k: self.ground_conductivity_w_per_m_k,
             pipes,
         }
     }
@@ -586,11 +589,11 @@ pub struct Coaxial {
     pub borehole_radius_m: f64,
     pub inner_pipe_inner_radius_m: f64,
     pub inner_pipe_outer_radius_m: f64,
-    pub inner_pipe_conductivity_w_m_k: f64,
+    pub inner_pipe_conductivity_w_per_m_k: f64,
     pub outer_pipe_inner_radius_m: f64,
     pub outer_pipe_outer_radius_m: f64,
-    pub outer_pipe_conductivity_w_m_k: f64,
-    pub grout_conductivity_w_m_k: f64,
+    pub outer_pipe_conductivity_w_per_m_k: f64,
+    pub grout_conductivity_w_per_m_k: f64,
     /// Film coefficient inside the inner pipe, W/(m² K).
     pub h_inner_pipe_w_m2_k: f64,
     /// Annulus film coefficient on the inner pipe's outer surface, W/(m² K).
@@ -628,13 +631,13 @@ impl Coaxial {
         for (what, v) in [
             (
                 "inner pipe conductivity (W/(m K))",
-                self.inner_pipe_conductivity_w_m_k,
+                self.inner_pipe_conductivity_w_per_m_k,
             ),
             (
                 "outer pipe conductivity (W/(m K))",
-                self.outer_pipe_conductivity_w_m_k,
+                self.outer_pipe_conductivity_w_per_m_k,
             ),
-            ("grout conductivity (W/(m K))", self.grout_conductivity_w_m_k),
+            ("grout conductivity (W/(m K))", self.grout_conductivity_w_per_m_k),
             ("inner pipe film coefficient (W/(m² K))", self.h_inner_pipe_w_m2_k),
             (
                 "annulus inner-wall film coefficient (W/(m² K))",
@@ -651,11 +654,11 @@ impl Coaxial {
         let layer = |inner: f64, outer: f64, k: f64| (outer / inner).ln() / (2.0 * PI * k);
         Ok(BoreholeResistances {
             internal_m_k_per_w: film(r[0], self.h_inner_pipe_w_m2_k)
-                + layer(r[0], r[1], self.inner_pipe_conductivity_w_m_k)
+                + layer(r[0], r[1], self.inner_pipe_conductivity_w_per_m_k)
                 + film(r[1], self.h_annulus_inner_wall_w_m2_k),
             borehole_m_k_per_w: film(r[2], self.h_annulus_outer_wall_w_m2_k)
-                + layer(r[2], r[3], self.outer_pipe_conductivity_w_m_k)
-                + layer(r[3], r[4], self.grout_conductivity_w_m_k),
+                + layer(r[2], r[3], self.outer_pipe_conductivity_w_per_m_k)
+                + layer(r[3], r[4], self.grout_conductivity_w_per_m_k),
         })
     }
 }

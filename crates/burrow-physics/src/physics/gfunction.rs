@@ -127,15 +127,15 @@ pub struct Options {
 }
 
 /// Eskilson's time scale `t_s = H²/(9α)`, s, for length `length_m` (m) and ground diffusivity
-/// `diffusivity_m2_s` (m²/s).
-pub fn characteristic_time_s(length_m: f64, diffusivity_m2_s: f64) -> f64 {
-    length_m * length_m / (9.0 * diffusivity_m2_s)
+/// `diffusivity_m2_per_s` (m²/s).
+pub fn characteristic_time_s(length_m: f64, diffusivity_m2_per_s: f64) -> f64 {
+    length_m * length_m / (9.0 * diffusivity_m2_per_s)
 }
 
 /// Forty times, s, evenly spaced in `ln(t/t_s)` from −10 to 3 (`t_s = H²/(9α)`), the range of
 /// Eskilson's g-function charts.
-pub fn default_times(length_m: f64, diffusivity_m2_s: f64) -> Vec<f64> {
-    let ts = characteristic_time_s(length_m, diffusivity_m2_s);
+pub fn default_times(length_m: f64, diffusivity_m2_per_s: f64) -> Vec<f64> {
+    let ts = characteristic_time_s(length_m, diffusivity_m2_per_s);
     let n = 40;
     (0..n)
         .map(|i| ts * (-10.0 + 13.0 * i as f64 / (n - 1) as f64).exp())
@@ -167,27 +167,33 @@ pub fn rectangle(
 }
 
 /// The g-function of `field` at `times_s` (s, strictly increasing, positive) for ground
-/// diffusivity `diffusivity_m2_s` (m²/s), with the default [`Options`] (cylinder-source near
+/// diffusivity `diffusivity_m2_per_s` (m²/s), with the default [`Options`] (cylinder-source near
 /// field). Returns one dimensionless value per time.
 pub fn gfunction(
     field: &[Borehole],
-    diffusivity_m2_s: f64,
+    diffusivity_m2_per_s: f64,
     times_s: &[f64],
     condition: WallCondition,
 ) -> Result<Vec<f64>, String> {
-    gfunction_with(field, diffusivity_m2_s, times_s, condition, &Options::default())
+    gfunction_with(
+        field,
+        diffusivity_m2_per_s,
+        times_s,
+        condition,
+        &Options::default(),
+    )
 }
 
 /// [`gfunction`] with explicit [`Options`].
 pub fn gfunction_with(
     field: &[Borehole],
-    diffusivity_m2_s: f64,
+    diffusivity_m2_per_s: f64,
     times_s: &[f64],
     condition: WallCondition,
     options: &Options,
 ) -> Result<Vec<f64>, String> {
     check_field(field)?;
-    check_times(diffusivity_m2_s, times_s)?;
+    check_times(diffusivity_m2_per_s, times_s)?;
     let segments = match condition {
         WallCondition::UniformHeatFlux => 1,
         WallCondition::UniformTemperature { segments } => {
@@ -212,7 +218,7 @@ pub fn gfunction_with(
         NearField::CylinderSource => {
             let cs = CylinderSource::new();
             let r_max = field.iter().map(|b| b.radius_m).fold(0.0, f64::max);
-            if diffusivity_m2_s * times_s[0] / (r_max * r_max) < cs.smallest_fourier() {
+            if diffusivity_m2_per_s * times_s[0] / (r_max * r_max) < cs.smallest_fourier() {
                 return Err(format!(
                     "the first time {} s is too short for the cylinder source (αt/r_b² must be at least {:e}); use later times",
                     times_s[0],
@@ -223,7 +229,7 @@ pub fn gfunction_with(
         }
         NearField::LineSource => {
             let r_max = field.iter().map(|b| b.radius_m).fold(0.0, f64::max);
-            if diffusivity_m2_s * times_s[0] / (r_max * r_max) < MIN_LINE_SOURCE_FOURIER {
+            if diffusivity_m2_per_s * times_s[0] / (r_max * r_max) < MIN_LINE_SOURCE_FOURIER {
                 return Err(format!(
                     "the first time {} s is too short for a line source (αt/r_b² must be at least {MIN_LINE_SOURCE_FOURIER}); use the cylinder-source near field or later times",
                     times_s[0]
@@ -235,14 +241,18 @@ pub fn gfunction_with(
     match condition {
         WallCondition::UniformHeatFlux => {
             check_table_size(&layout, times_s.len())?;
-            let table = ResponseTable::build(&layout, diffusivity_m2_s, times_s, cylinder.as_ref());
+            let table = ResponseTable::build(&layout, diffusivity_m2_per_s, times_s, cylinder.as_ref());
             Ok(superposition::uniform_heat_flux(&layout, &table, times_s.len()))
         }
         WallCondition::UniformTemperature { .. } => {
             let differences = Differences::new(times_s);
             check_table_size(&layout, differences.taus_s.len())?;
-            let table =
-                ResponseTable::build(&layout, diffusivity_m2_s, &differences.taus_s, cylinder.as_ref());
+            let table = ResponseTable::build(
+                &layout,
+                diffusivity_m2_per_s,
+                &differences.taus_s,
+                cylinder.as_ref(),
+            );
             superposition::uniform_wall_temperature(&layout, &table, &differences)
         }
     }
@@ -319,10 +329,10 @@ fn check_spacing(field: &[Borehole]) -> Result<(), String> {
     Ok(())
 }
 
-fn check_times(diffusivity_m2_s: f64, times_s: &[f64]) -> Result<(), String> {
-    if !(diffusivity_m2_s.is_finite() && diffusivity_m2_s > 0.0) {
+fn check_times(diffusivity_m2_per_s: f64, times_s: &[f64]) -> Result<(), String> {
+    if !(diffusivity_m2_per_s.is_finite() && diffusivity_m2_per_s > 0.0) {
         return Err(format!(
-            "the ground diffusivity is {diffusivity_m2_s} m²/s; it must be a positive number"
+            "the ground diffusivity is {diffusivity_m2_per_s} m²/s; it must be a positive number"
         ));
     }
     if times_s.is_empty() {

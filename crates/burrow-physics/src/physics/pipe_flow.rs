@@ -18,8 +18,8 @@
 //! same idea ends at Re = 10⁴ with a turbulent equation without the "−1000" term; it is not used
 //! here so that the tube Nusselt number is continuous with the 1976 correlation.
 
-use crate::numerics::checks::{non_negative as check_non_negative, positive as check_positive};
 use crate::materials::fluids::Fluid;
+use crate::numerics::checks::{non_negative as check_non_negative, positive as check_positive};
 use std::f64::consts::PI;
 
 /// Reynolds number below which pipe flow is taken as laminar (common practice, no source).
@@ -47,32 +47,32 @@ pub const U_BEND_LOSS_COEFFICIENT: f64 = 1.5;
 // Dimensionless groups
 // ---------------------------------------------------------------------------------------------
 
-/// Reynolds number Re = ρ v d_h / μ of a flow with mean velocity `velocity_m_s` in a channel of
+/// Reynolds number Re = ρ v d_h / μ of a flow with mean velocity `velocity_m_per_s` in a channel of
 /// hydraulic diameter `hydraulic_diameter_m`; density in kg/m³, dynamic viscosity in Pa s.
 pub fn reynolds_number(
-    velocity_m_s: f64,
+    velocity_m_per_s: f64,
     hydraulic_diameter_m: f64,
-    density_kg_m3: f64,
+    density_kg_per_m3: f64,
     viscosity_pa_s: f64,
 ) -> Result<f64, String> {
-    check_non_negative("mean velocity (m/s)", velocity_m_s)?;
+    check_non_negative("mean velocity (m/s)", velocity_m_per_s)?;
     check_positive("hydraulic diameter (m)", hydraulic_diameter_m)?;
-    check_positive("density (kg/m³)", density_kg_m3)?;
+    check_positive("density (kg/m³)", density_kg_per_m3)?;
     check_positive("dynamic viscosity (Pa s)", viscosity_pa_s)?;
-    Ok(density_kg_m3 * velocity_m_s * hydraulic_diameter_m / viscosity_pa_s)
+    Ok(density_kg_per_m3 * velocity_m_per_s * hydraulic_diameter_m / viscosity_pa_s)
 }
 
 /// Prandtl number Pr = c_p μ / k; specific heat in J/(kg K), viscosity in Pa s, conductivity in
 /// W/(m K).
 pub fn prandtl_number(
-    specific_heat_j_kg_k: f64,
+    specific_heat_j_per_kg_k: f64,
     viscosity_pa_s: f64,
-    conductivity_w_m_k: f64,
+    conductivity_w_per_m_k: f64,
 ) -> Result<f64, String> {
-    check_positive("specific heat (J/(kg K))", specific_heat_j_kg_k)?;
+    check_positive("specific heat (J/(kg K))", specific_heat_j_per_kg_k)?;
     check_positive("dynamic viscosity (Pa s)", viscosity_pa_s)?;
-    check_positive("thermal conductivity (W/(m K))", conductivity_w_m_k)?;
-    Ok(specific_heat_j_kg_k * viscosity_pa_s / conductivity_w_m_k)
+    check_positive("thermal conductivity (W/(m K))", conductivity_w_per_m_k)?;
+    Ok(specific_heat_j_per_kg_k * viscosity_pa_s / conductivity_w_per_m_k)
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -336,13 +336,13 @@ pub fn nusselt_annulus(
 /// Heat-transfer coefficient h = Nu k / d_h, W/(m² K).
 pub fn heat_transfer_coefficient_w_m2_k(
     nusselt: f64,
-    fluid_conductivity_w_m_k: f64,
+    fluid_conductivity_w_per_m_k: f64,
     hydraulic_diameter_m: f64,
 ) -> Result<f64, String> {
     check_positive("Nusselt number", nusselt)?;
-    check_positive("fluid conductivity (W/(m K))", fluid_conductivity_w_m_k)?;
+    check_positive("fluid conductivity (W/(m K))", fluid_conductivity_w_per_m_k)?;
     check_positive("hydraulic diameter (m)", hydraulic_diameter_m)?;
-    Ok(nusselt * fluid_conductivity_w_m_k / hydraulic_diameter_m)
+    Ok(nusselt * fluid_conductivity_w_per_m_k / hydraulic_diameter_m)
 }
 
 /// Convective (film) resistance per metre of a wall of diameter `wall_diameter_m`,
@@ -358,13 +358,13 @@ pub fn film_resistance_m_k_per_w(h_w_m2_k: f64, wall_diameter_m: f64) -> Result<
 pub fn cylinder_wall_resistance_m_k_per_w(
     inner_radius_m: f64,
     outer_radius_m: f64,
-    conductivity_w_m_k: f64,
+    conductivity_w_per_m_k: f64,
 ) -> Result<f64, String> {
     // The project's one cylindrical-shell formula (Carslaw & Jaeger §7.2).
     crate::physics::buried_pipe::wall::shell_resistance_m_k_per_w(
         inner_radius_m,
         outer_radius_m,
-        conductivity_w_m_k,
+        conductivity_w_per_m_k,
     )
 }
 
@@ -377,39 +377,39 @@ pub fn cylinder_wall_resistance_m_k_per_w(
 pub struct ChannelFlow {
     pub hydraulic_diameter_m: f64,
     pub flow_area_m2: f64,
-    pub velocity_m_s: f64,
+    pub velocity_m_per_s: f64,
     pub reynolds: f64,
     pub prandtl: f64,
-    pub density_kg_m3: f64,
-    pub conductivity_w_m_k: f64,
-    pub specific_heat_j_kg_k: f64,
+    pub density_kg_per_m3: f64,
+    pub conductivity_w_per_m_k: f64,
+    pub specific_heat_j_per_kg_k: f64,
 }
 
-/// Flow of `fluid` at `t_c` (°C) with mass flow `mass_flow_kg_s` through a circular tube of inner
+/// Flow of `fluid` at `t_c` (°C) with mass flow `mass_flow_kg_per_s` through a circular tube of inner
 /// diameter `inner_diameter_m`.
 pub fn tube_flow(
     fluid: &Fluid,
     t_c: f64,
-    mass_flow_kg_s: f64,
+    mass_flow_kg_per_s: f64,
     inner_diameter_m: f64,
 ) -> Result<ChannelFlow, String> {
     check_positive("pipe inner diameter (m)", inner_diameter_m)?;
     channel_flow(
         fluid,
         t_c,
-        mass_flow_kg_s,
+        mass_flow_kg_per_s,
         inner_diameter_m,
         PI / 4.0 * inner_diameter_m.powi(2),
     )
 }
 
-/// Flow of `fluid` at `t_c` (°C) with mass flow `mass_flow_kg_s` through the concentric annulus
+/// Flow of `fluid` at `t_c` (°C) with mass flow `mass_flow_kg_per_s` through the concentric annulus
 /// between an inner pipe of outer diameter `inner_pipe_outer_diameter_m` and an outer pipe of inner
 /// diameter `outer_pipe_inner_diameter_m`; d_h = D_o − d_i.
 pub fn annulus_flow(
     fluid: &Fluid,
     t_c: f64,
-    mass_flow_kg_s: f64,
+    mass_flow_kg_per_s: f64,
     inner_pipe_outer_diameter_m: f64,
     outer_pipe_inner_diameter_m: f64,
 ) -> Result<ChannelFlow, String> {
@@ -424,7 +424,7 @@ pub fn annulus_flow(
     channel_flow(
         fluid,
         t_c,
-        mass_flow_kg_s,
+        mass_flow_kg_per_s,
         outer_pipe_inner_diameter_m - inner_pipe_outer_diameter_m,
         area,
     )
@@ -433,26 +433,26 @@ pub fn annulus_flow(
 fn channel_flow(
     fluid: &Fluid,
     t_c: f64,
-    mass_flow_kg_s: f64,
+    mass_flow_kg_per_s: f64,
     hydraulic_diameter_m: f64,
     flow_area_m2: f64,
 ) -> Result<ChannelFlow, String> {
     fluid.check_temperature(t_c)?;
-    check_positive("mass flow (kg/s)", mass_flow_kg_s)?;
-    let density = fluid.density_kg_m3(t_c);
+    check_positive("mass flow (kg/s)", mass_flow_kg_per_s)?;
+    let density = fluid.density_kg_per_m3(t_c);
     let viscosity = fluid.dynamic_viscosity_pa_s(t_c);
-    let conductivity = fluid.conductivity_w_m_k(t_c);
-    let specific_heat = fluid.specific_heat_j_kg_k(t_c);
-    let velocity = mass_flow_kg_s / (density * flow_area_m2);
+    let conductivity = fluid.conductivity_w_per_m_k(t_c);
+    let specific_heat = fluid.specific_heat_j_per_kg_k(t_c);
+    let velocity = mass_flow_kg_per_s / (density * flow_area_m2);
     Ok(ChannelFlow {
         hydraulic_diameter_m,
         flow_area_m2,
-        velocity_m_s: velocity,
+        velocity_m_per_s: velocity,
         reynolds: reynolds_number(velocity, hydraulic_diameter_m, density, viscosity)?,
         prandtl: prandtl_number(specific_heat, viscosity, conductivity)?,
-        density_kg_m3: density,
-        conductivity_w_m_k: conductivity,
-        specific_heat_j_kg_k: specific_heat,
+        density_kg_per_m3: density,
+        conductivity_w_per_m_k: conductivity,
+        specific_heat_j_per_kg_k: specific_heat,
     })
 }
 
@@ -464,12 +464,12 @@ pub fn pipe_resistance_m_k_per_w(
     wall: LaminarWall,
     inner_radius_m: f64,
     outer_radius_m: f64,
-    pipe_conductivity_w_m_k: f64,
+    pipe_conductivity_w_per_m_k: f64,
 ) -> Result<f64, String> {
     let nu = nusselt_tube(flow.reynolds, flow.prandtl, wall)?;
-    let h = heat_transfer_coefficient_w_m2_k(nu, flow.conductivity_w_m_k, flow.hydraulic_diameter_m)?;
+    let h = heat_transfer_coefficient_w_m2_k(nu, flow.conductivity_w_per_m_k, flow.hydraulic_diameter_m)?;
     Ok(film_resistance_m_k_per_w(h, 2.0 * inner_radius_m)?
-        + cylinder_wall_resistance_m_k_per_w(inner_radius_m, outer_radius_m, pipe_conductivity_w_m_k)?)
+        + cylinder_wall_resistance_m_k_per_w(inner_radius_m, outer_radius_m, pipe_conductivity_w_per_m_k)?)
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -489,21 +489,25 @@ pub fn loop_pressure_drop_pa(
     check_positive("Darcy friction factor", darcy_friction)?;
     check_non_negative("loop length (m)", length_m)?;
     check_non_negative("local loss coefficient", local_loss_coefficient)?;
-    let dynamic_pressure = 0.5 * flow.density_kg_m3 * flow.velocity_m_s.powi(2);
+    let dynamic_pressure = 0.5 * flow.density_kg_per_m3 * flow.velocity_m_per_s.powi(2);
     Ok((darcy_friction * length_m / flow.hydraulic_diameter_m + local_loss_coefficient) * dynamic_pressure)
 }
 
 /// Hydraulic power the pump must supply, P = Δp V̇ / η, W; `efficiency` is the overall
 /// (wire-to-water) efficiency in (0, 1].
-pub fn pumping_power_w(pressure_drop_pa: f64, volume_flow_m3_s: f64, efficiency: f64) -> Result<f64, String> {
+pub fn pumping_power_w(
+    pressure_drop_pa: f64,
+    volume_flow_m3_per_s: f64,
+    efficiency: f64,
+) -> Result<f64, String> {
     check_non_negative("pressure drop (Pa)", pressure_drop_pa)?;
-    check_non_negative("volume flow (m³/s)", volume_flow_m3_s)?;
+    check_non_negative("volume flow (m³/s)", volume_flow_m3_per_s)?;
     if !(efficiency.is_finite() && efficiency > 0.0 && efficiency <= 1.0) {
         return Err(format!(
             "the pump efficiency {efficiency} is not allowed; give a fraction above 0 and at most 1"
         ));
     }
-    Ok(pressure_drop_pa * volume_flow_m3_s / efficiency)
+    Ok(pressure_drop_pa * volume_flow_m3_per_s / efficiency)
 }
 
 // ---------------------------------------------------------------------------------------------

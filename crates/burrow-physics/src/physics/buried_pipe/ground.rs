@@ -35,7 +35,7 @@ pub fn ground_resistance_m_k_per_w(
         GroundForm::Exact => ratio.acosh(),
         GroundForm::LineSource => (2.0 * ratio).ln(),
     };
-    Ok(shape / (2.0 * PI * soil.conductivity_w_m_k))
+    Ok(shape / (2.0 * PI * soil.conductivity_w_per_m_k))
 }
 
 /// Temperature rise at `point` per unit heat rate of a line source at `source` (K per W/m), with
@@ -57,10 +57,10 @@ pub fn line_source_rise_k_per_w_per_m(point: Position, source: Position, soil: &
     if d_m.is_nan() || d_m <= 0.0 {
         return Err("the point coincides with a pipe centre; pick a point in the soil".into());
     }
-    let surface_shift_m = soil.conductivity_w_m_k * soil.surface_resistance_m2_k_per_w;
+    let surface_shift_m = soil.conductivity_w_per_m_k * soil.surface_resistance_m2_k_per_w;
     let image = Position::new(source.x_m, -source.depth_m - 2.0 * surface_shift_m);
     let d_image_m = point.distance_m(&image);
-    Ok((d_image_m / d_m).ln() / (2.0 * PI * soil.conductivity_w_m_k))
+    Ok((d_image_m / d_m).ln() / (2.0 * PI * soil.conductivity_w_per_m_k))
 }
 
 /// Mutual resistance of two pipes per metre, m K/W: the temperature rise at the centre of one per

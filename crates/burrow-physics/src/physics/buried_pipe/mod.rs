@@ -49,7 +49,7 @@ pub const DEFAULT_SURFACE_RESISTANCE_M2_K_PER_W: f64 = 0.0685;
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct Soil {
     /// Thermal conductivity, W/(m K).
-    pub conductivity_w_m_k: f64,
+    pub conductivity_w_per_m_k: f64,
     /// Surface resistance R0 between the ground surface and the undisturbed temperature, m² K/W
     /// (0 = the surface is held at the undisturbed temperature).
     pub surface_resistance_m2_k_per_w: f64,
@@ -58,11 +58,11 @@ pub struct Soil {
 impl Soil {
     /// Checked constructor: conductivity finite and positive, surface resistance finite and not
     /// negative.
-    pub fn new(conductivity_w_m_k: f64, surface_resistance_m2_k_per_w: f64) -> Result<Self, String> {
-        positive("the soil conductivity", conductivity_w_m_k, "W/(m K)")?;
+    pub fn new(conductivity_w_per_m_k: f64, surface_resistance_m2_k_per_w: f64) -> Result<Self, String> {
+        positive("the soil conductivity", conductivity_w_per_m_k, "W/(m K)")?;
         not_negative("the surface resistance", surface_resistance_m2_k_per_w, "m2 K/W")?;
         Ok(Self {
-            conductivity_w_m_k,
+            conductivity_w_per_m_k,
             surface_resistance_m2_k_per_w,
         })
     }
@@ -70,7 +70,7 @@ impl Soil {
     /// Effective depth H' = H + k·R0, m: the surface resistance as an added soil layer of the same
     /// thermal resistance (EN 13941-1 practice).
     pub fn effective_depth_m(&self, depth_m: f64) -> f64 {
-        depth_m + self.conductivity_w_m_k * self.surface_resistance_m2_k_per_w
+        depth_m + self.conductivity_w_per_m_k * self.surface_resistance_m2_k_per_w
     }
 }
 

@@ -38,10 +38,10 @@ pub struct SizingCase {
     /// The carrier's own wall layers, inside out, ending at `carrier_outer_radius_m`.
     pub carrier_layers: Vec<WallLayer>,
     /// Insulation conductivity (design value, e.g. aged λ50), W/(m K).
-    pub insulation_conductivity_w_m_k: f64,
+    pub insulation_conductivity_w_per_m_k: f64,
     /// Casing wall thickness, m, and conductivity, W/(m K).
     pub casing_thickness_m: f64,
-    pub casing_conductivity_w_m_k: f64,
+    pub casing_conductivity_w_per_m_k: f64,
     pub soil: Soil,
     pub form: GroundForm,
     /// Monthly supply, return and undisturbed ground (at the centre depth) temperatures, °C.
@@ -95,11 +95,14 @@ pub fn candidate_loss(case: &SizingCase, thickness_m: f64) -> Result<CandidateLo
 
 fn pipes_monthly_loss(case: &SizingCase, thickness_m: f64) -> Result<[f64; 12], String> {
     let mut layers = case.carrier_layers.clone();
-    layers.push(WallLayer::new(thickness_m, case.insulation_conductivity_w_m_k));
+    layers.push(WallLayer::new(
+        thickness_m,
+        case.insulation_conductivity_w_per_m_k,
+    ));
     if case.casing_thickness_m > 0.0 {
         layers.push(WallLayer::new(
             case.casing_thickness_m,
-            case.casing_conductivity_w_m_k,
+            case.casing_conductivity_w_per_m_k,
         ));
     }
     let r_o = case.carrier_outer_radius_m + thickness_m + case.casing_thickness_m;
@@ -144,8 +147,8 @@ fn twin_monthly_loss(
             + thickness_m
             + case.casing_thickness_m,
         casing_thickness_m: case.casing_thickness_m,
-        casing_conductivity_w_m_k: case.casing_conductivity_w_m_k,
-        insulation_conductivity_w_m_k: case.insulation_conductivity_w_m_k,
+        casing_conductivity_w_per_m_k: case.casing_conductivity_w_per_m_k,
+        insulation_conductivity_w_per_m_k: case.insulation_conductivity_w_per_m_k,
         carrier_outer_radius_m: case.carrier_outer_radius_m,
         carrier_spacing_m,
         carrier_wall_resistance_m_k_per_w: wall_resistance_m_k_per_w(carrier_inner, &case.carrier_layers)?,

@@ -280,7 +280,7 @@ pub fn solve_pipes_with_insulation_laws(
                     "the insulation layer index {layer} is beyond the pipe's layers"
                 ));
             };
-            l.conductivity_w_m_k = law.at(law.reference_c)?;
+            l.conductivity_w_per_m_k = law.at(law.reference_c)?;
         }
     }
     for _ in 0..100 {
@@ -296,14 +296,14 @@ pub fn solve_pipes_with_insulation_laws(
             )?;
             let t_mean = super::wall::insulation_mean_temperature_c(faces[*layer], faces[*layer + 1]);
             let lambda = law.at(t_mean)?;
-            change = change.max((lambda - pipe.layers[*layer].conductivity_w_m_k).abs());
-            pipe.layers[*layer].conductivity_w_m_k = lambda;
+            change = change.max((lambda - pipe.layers[*layer].conductivity_w_per_m_k).abs());
+            pipe.layers[*layer].conductivity_w_per_m_k = lambda;
         }
         if change < 1e-9 {
             let lambdas = current
                 .iter()
                 .zip(insulation)
-                .map(|(p, e)| e.map(|(layer, _)| p.layers[layer].conductivity_w_m_k))
+                .map(|(p, e)| e.map(|(layer, _)| p.layers[layer].conductivity_w_per_m_k))
                 .collect();
             return Ok((states, lambdas));
         }

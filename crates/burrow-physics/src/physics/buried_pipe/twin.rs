@@ -46,9 +46,9 @@ pub struct TwinPipe {
     /// Wall thickness of the casing, m.
     pub casing_thickness_m: f64,
     /// Conductivity of the casing, W/(m K).
-    pub casing_conductivity_w_m_k: f64,
+    pub casing_conductivity_w_per_m_k: f64,
     /// Conductivity of the insulation around the carriers, W/(m K).
-    pub insulation_conductivity_w_m_k: f64,
+    pub insulation_conductivity_w_per_m_k: f64,
     /// Outer radius of each carrier pipe, m (`r_o` in EN 15698-1).
     pub carrier_outer_radius_m: f64,
     /// Distance between the two carrier centres, m (`2D`), placed symmetrically about the centre.
@@ -79,7 +79,7 @@ pub struct TwinResistances {
     /// Between the two carriers (`R_a`), carriers' walls included.
     pub antisymmetric_m_k_per_w: f64,
     /// Insulation conductivity, W/(m K), for the dimensionless coefficients.
-    insulation_conductivity_w_m_k: f64,
+    insulation_conductivity_w_per_m_k: f64,
 }
 
 impl TwinResistances {
@@ -90,12 +90,12 @@ impl TwinResistances {
 
     /// Wallentén's `h_s = 1/(4πλ_i·R_sym)` (dimensionless).
     pub fn h_s(&self) -> f64 {
-        1.0 / (4.0 * PI * self.insulation_conductivity_w_m_k * self.symmetric_m_k_per_w())
+        1.0 / (4.0 * PI * self.insulation_conductivity_w_per_m_k * self.symmetric_m_k_per_w())
     }
 
     /// Wallentén's `h_a = 1/(πλ_i·R_a)` (dimensionless).
     pub fn h_a(&self) -> f64 {
-        1.0 / (PI * self.insulation_conductivity_w_m_k * self.antisymmetric_m_k_per_w)
+        1.0 / (PI * self.insulation_conductivity_w_per_m_k * self.antisymmetric_m_k_per_w)
     }
 
     /// Heat rates `[q_supply, q_return]`, W/m, for fluid temperatures `supply_c`, `return_c`
@@ -127,12 +127,12 @@ impl TwinPipe {
         not_negative("the casing thickness", self.casing_thickness_m, "m")?;
         positive(
             "the casing conductivity",
-            self.casing_conductivity_w_m_k,
+            self.casing_conductivity_w_per_m_k,
             "W/(m K)",
         )?;
         positive(
             "the insulation conductivity",
-            self.insulation_conductivity_w_m_k,
+            self.insulation_conductivity_w_per_m_k,
             "W/(m K)",
         )?;
         positive("the carrier radius", self.carrier_outer_radius_m, "m")?;
@@ -167,12 +167,15 @@ impl TwinPipe {
 
     /// `β = 2πλ_i·R_p` (Claesson & Hellström 2011): the carrier wall in insulation units.
     fn beta(&self) -> f64 {
-        2.0 * PI * self.insulation_conductivity_w_m_k * self.carrier_wall_resistance_m_k_per_w
+        2.0 * PI * self.insulation_conductivity_w_per_m_k * self.carrier_wall_resistance_m_k_per_w
     }
 
     /// `σ = (λ_i − λ_g)/(λ_i + λ_g)` (Bennet, Claesson & Hellström 1987).
     fn sigma(&self, soil: &Soil) -> f64 {
-        let (li, lg) = (self.insulation_conductivity_w_m_k, soil.conductivity_w_m_k);
+        let (li, lg) = (
+            self.insulation_conductivity_w_per_m_k,
+            soil.conductivity_w_per_m_k,
+        );
         (li - lg) / (li + lg)
     }
 
@@ -199,7 +202,7 @@ impl TwinPipe {
             shell_resistance_m_k_per_w(
                 self.insulation_outer_radius_m(),
                 self.casing_outer_radius_m,
-                self.casing_conductivity_w_m_k,
+                self.casing_conductivity_w_per_m_k,
             )?
         } else {
             0.0
@@ -214,7 +217,7 @@ impl TwinPipe {
                 form,
             )?,
             antisymmetric_m_k_per_w: anti,
-            insulation_conductivity_w_m_k: self.insulation_conductivity_w_m_k,
+            insulation_conductivity_w_per_m_k: self.insulation_conductivity_w_per_m_k,
         })
     }
 
@@ -237,7 +240,7 @@ impl TwinPipe {
         let r_p = self.carrier_outer_radius_m;
         let d = 0.5 * self.carrier_spacing_m;
         let (beta, sigma) = (self.beta(), self.sigma(soil));
-        let li = self.insulation_conductivity_w_m_k;
+        let li = self.insulation_conductivity_w_per_m_k;
         let p = r_p * r_p / (4.0 * d * d);
         let (rc2, d2) = (r_c * r_c, d * d);
         let (rc4, d4) = (rc2 * rc2, d2 * d2);
@@ -272,7 +275,7 @@ impl TwinPipe {
             beta: self.beta(),
             order,
         };
-        let li = self.insulation_conductivity_w_m_k;
+        let li = self.insulation_conductivity_w_per_m_k;
         let system = geometry.system();
         let sym = geometry.fluid_excess(&system, &[1.0, 1.0])?;
         let anti = geometry.fluid_excess(&system, &[1.0, -1.0])?;

@@ -5,7 +5,7 @@ use std::f64::consts::PI;
 
 /// Largest fresh λ50 of polyurethane insulation that EN 253 allows, W/(m K) (`from memory`:
 /// EN 253:2009+A2:2015, requirement on the thermal conductivity at 50 °C of the unaged foam).
-pub const EN253_MAX_FRESH_LAMBDA50_W_M_K: f64 = 0.029;
+pub const EN253_MAX_FRESH_LAMBDA50_W_PER_M_K: f64 = 0.029;
 
 /// One coaxial wall layer.
 #[derive(Clone, Copy, Debug, PartialEq)]
@@ -13,14 +13,14 @@ pub struct WallLayer {
     /// Radial thickness, m.
     pub thickness_m: f64,
     /// Thermal conductivity, W/(m K).
-    pub conductivity_w_m_k: f64,
+    pub conductivity_w_per_m_k: f64,
 }
 
 impl WallLayer {
-    pub fn new(thickness_m: f64, conductivity_w_m_k: f64) -> Self {
+    pub fn new(thickness_m: f64, conductivity_w_per_m_k: f64) -> Self {
         Self {
             thickness_m,
-            conductivity_w_m_k,
+            conductivity_w_per_m_k,
         }
     }
 }
@@ -33,17 +33,21 @@ impl WallLayer {
 pub fn shell_resistance_m_k_per_w(
     inner_radius_m: f64,
     outer_radius_m: f64,
-    conductivity_w_m_k: f64,
+    conductivity_w_per_m_k: f64,
 ) -> Result<f64, String> {
     positive("the inner radius of a wall layer", inner_radius_m, "m")?;
-    positive("the conductivity of a wall layer", conductivity_w_m_k, "W/(m K)")?;
+    positive(
+        "the conductivity of a wall layer",
+        conductivity_w_per_m_k,
+        "W/(m K)",
+    )?;
     if !(outer_radius_m.is_finite() && outer_radius_m >= inner_radius_m) {
         return Err(format!(
             "a wall layer's outer radius {outer_radius_m} m is below its inner radius {inner_radius_m} m; \
              it must be at least as large"
         ));
     }
-    Ok((outer_radius_m / inner_radius_m).ln() / (2.0 * PI * conductivity_w_m_k))
+    Ok((outer_radius_m / inner_radius_m).ln() / (2.0 * PI * conductivity_w_per_m_k))
 }
 
 /// Resistance of coaxial layers from the inside out, m K/W:
@@ -54,7 +58,7 @@ pub fn wall_resistance_m_k_per_w(inner_radius_m: f64, layers: &[WallLayer]) -> R
     let mut total = 0.0;
     for layer in layers {
         not_negative("a wall layer's thickness", layer.thickness_m, "m")?;
-        total += shell_resistance_m_k_per_w(r_m, r_m + layer.thickness_m, layer.conductivity_w_m_k)?;
+        total += shell_resistance_m_k_per_w(r_m, r_m + layer.thickness_m, layer.conductivity_w_per_m_k)?;
         r_m += layer.thickness_m;
     }
     Ok(total)
@@ -91,7 +95,7 @@ pub fn face_temperatures_c(
     let mut t_c = inner_c;
     for layer in layers {
         t_c -= heat_w_per_m
-            * shell_resistance_m_k_per_w(r_m, r_m + layer.thickness_m, layer.conductivity_w_m_k)?;
+            * shell_resistance_m_k_per_w(r_m, r_m + layer.thickness_m, layer.conductivity_w_per_m_k)?;
         r_m += layer.thickness_m;
         faces.push(t_c);
     }
@@ -109,34 +113,34 @@ pub fn insulation_mean_temperature_c(inner_face_c: f64, outer_face_c: f64) -> f6
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct LinearConductivity {
     /// λ at the reference temperature, W/(m K).
-    pub reference_w_m_k: f64,
+    pub reference_w_per_m_k: f64,
     /// Reference temperature, °C.
     pub reference_c: f64,
     /// Slope dλ/dT, W/(m K²).
-    pub slope_w_m_k2: f64,
+    pub slope_w_per_m_k2: f64,
 }
 
 impl LinearConductivity {
     /// Checked constructor: all values finite, λ_ref positive.
-    pub fn new(reference_w_m_k: f64, reference_c: f64, slope_w_m_k2: f64) -> Result<Self, String> {
+    pub fn new(reference_w_per_m_k: f64, reference_c: f64, slope_w_per_m_k2: f64) -> Result<Self, String> {
         positive(
             "the reference insulation conductivity",
-            reference_w_m_k,
+            reference_w_per_m_k,
             "W/(m K)",
         )?;
         finite("the reference temperature", reference_c, "°C")?;
-        finite("the conductivity slope", slope_w_m_k2, "W/(m K2)")?;
+        finite("the conductivity slope", slope_w_per_m_k2, "W/(m K2)")?;
         Ok(Self {
-            reference_w_m_k,
+            reference_w_per_m_k,
             reference_c,
-            slope_w_m_k2,
+            slope_w_per_m_k2,
         })
     }
 
     /// λ at the mean insulation temperature `t_c` (°C), W/(m K); an error when the line gives
     /// zero or less there.
     pub fn at(&self, t_c: f64) -> Result<f64, String> {
-        let lambda = self.reference_w_m_k + self.slope_w_m_k2 * (t_c - self.reference_c);
+        let lambda = self.reference_w_per_m_k + self.slope_w_per_m_k2 * (t_c - self.reference_c);
         if lambda.is_finite() && lambda > 0.0 {
             Ok(lambda)
         } else {
@@ -154,8 +158,8 @@ impl LinearConductivity {
 /// EN 253 asks for the conductivity of the aged foam for design; the allowance `a` (dimensionless)
 /// comes from the manufacturer's ageing test. Typical values are 0.1–0.3 over 30 years for
 /// casings without a diffusion barrier (`from memory`).
-pub fn aged_lambda50_w_m_k(fresh_w_m_k: f64, ageing_allowance: f64) -> Result<f64, String> {
-    positive("the fresh λ50", fresh_w_m_k, "W/(m K)")?;
+pub fn aged_lambda50_w_per_m_k(fresh_w_per_m_k: f64, ageing_allowance: f64) -> Result<f64, String> {
+    positive("the fresh λ50", fresh_w_per_m_k, "W/(m K)")?;
     not_negative("the ageing allowance", ageing_allowance, "(fraction)")?;
-    Ok(fresh_w_m_k * (1.0 + ageing_allowance))
+    Ok(fresh_w_per_m_k * (1.0 + ageing_allowance))
 }

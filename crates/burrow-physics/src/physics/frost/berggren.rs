@@ -28,9 +28,9 @@
 //! here `F(X) = F` is solved by Brent's method on X, which gives the same fixed point.
 
 use super::neumann::neumann_xi;
-use crate::numerics::roots::brent;
 use super::stefan::{FrostLayer, check_layers, latent_resistance_sum, slices};
 use super::{check_finite, check_non_negative, check_positive};
+use crate::numerics::roots::brent;
 
 /// The freezing season that drives the modified Berggren formula.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -124,7 +124,7 @@ pub fn modified_berggren_depth(
     // Start from the depth Stefan's formula gives for the top layer (λ ≤ 1 keeps the root near
     // or below it) and widen the bracket until the needed index changes sign.
     let top = &layers[0];
-    let mut hi = (2.0 * top.k_mean_w_mk() * season.surface_index_c_s / top.latent_j_m3.max(1.0))
+    let mut hi = (2.0 * top.k_mean_w_mk() * season.surface_index_c_s / top.latent_j_per_m3.max(1.0))
         .sqrt()
         .max(1e-3);
     let mut lo = hi;
@@ -167,7 +167,7 @@ fn depth_state(
 ) -> Result<(f64, f64, f64), String> {
     let pieces = slices(layers, x);
     let c_mean = pieces.iter().map(|(l, d)| l.c_mean_j_m3k() * d).sum::<f64>() / x;
-    let latent_sum = pieces.iter().map(|(l, d)| l.latent_j_m3 * d).sum::<f64>();
+    let latent_sum = pieces.iter().map(|(l, d)| l.latent_j_per_m3 * d).sum::<f64>();
     let vs = season.vs_k();
     let inv_mu = latent_sum / x / (c_mean * vs);
     let xi = neumann_xi(alpha, 1.0, inv_mu)?;

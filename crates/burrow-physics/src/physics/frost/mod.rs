@@ -43,12 +43,14 @@ pub use index::{
 pub use n_factors::{NFactorPreset, n_factor_preset, n_factor_presets};
 pub use neumann::{NeumannFreezing, neumann_xi};
 pub use pipe::{
-    DEFAULT_FROST_MARGIN_M, PipeCover, StagnantPipe, StagnantRun, bleed_flow_m3_s, outlet_temperature_c,
+    DEFAULT_FROST_MARGIN_M, PipeCover, StagnantPipe, StagnantRun, bleed_flow_m3_per_s, outlet_temperature_c,
     required_cover,
 };
 pub use stefan::{FrostLayer, layered_stefan_depth_m, layered_stefan_index_c_s, stefan_depth_m};
 
-use crate::numerics::checks::{finite as check_finite, non_negative as check_non_negative, positive as check_positive};
+use crate::numerics::checks::{
+    finite as check_finite, non_negative as check_non_negative, positive as check_positive,
+};
 use crate::physics::annual_wave::DAY_S;
 
 /// Converts a freezing or thawing index from °C·days to °C·s (× 86 400).

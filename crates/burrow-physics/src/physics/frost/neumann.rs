@@ -25,8 +25,8 @@ use std::f64::consts::PI;
 
 use crate::numerics::special::{erf, erfcx};
 
-use crate::numerics::roots::decreasing_root_on_positive_axis;
 use super::{check_finite, check_non_negative, check_positive};
+use crate::numerics::roots::decreasing_root_on_positive_axis;
 
 /// The dimensionless Neumann root ξ (> 0) of `e^{−ξ²}/erf ξ − β/erfcx(νξ) = √π ξ · inv_ste`
 /// (Carslaw & Jaeger 1959 §11.2), where `beta` ≥ 0 is the unfrozen-side heat ratio, `nu` > 0
@@ -67,7 +67,7 @@ pub struct NeumannFreezing {
     /// Unfrozen volumetric heat capacity C2, J/(m³ K).
     pub c_unfrozen_j_m3k: f64,
     /// Volumetric latent heat L, J/m³.
-    pub latent_j_m3: f64,
+    pub latent_j_per_m3: f64,
     /// Initial (unfrozen) soil temperature V, °C (≥ freezing point).
     pub initial_c: f64,
     /// Surface temperature T0 from t = 0, °C (< freezing point).
@@ -82,7 +82,7 @@ impl NeumannFreezing {
         check_positive("the frozen heat capacity (J/(m³ K))", self.c_frozen_j_m3k)?;
         check_positive("the unfrozen conductivity (W/(m K))", self.k_unfrozen_w_mk)?;
         check_positive("the unfrozen heat capacity (J/(m³ K))", self.c_unfrozen_j_m3k)?;
-        check_non_negative("the latent heat (J/m³)", self.latent_j_m3)?;
+        check_non_negative("the latent heat (J/m³)", self.latent_j_per_m3)?;
         check_finite("the initial temperature (°C)", self.initial_c)?;
         check_finite("the surface temperature (°C)", self.surface_c)?;
         check_finite("the freezing point (°C)", self.freezing_point_c)?;
@@ -116,7 +116,7 @@ impl NeumannFreezing {
         let below = self.freezing_point_c - self.surface_c;
         let beta = self.k_unfrozen_w_mk * a1.sqrt() * (self.initial_c - self.freezing_point_c)
             / (self.k_frozen_w_mk * a2.sqrt() * below);
-        let inv_ste = self.latent_j_m3 / (self.c_frozen_j_m3k * below);
+        let inv_ste = self.latent_j_per_m3 / (self.c_frozen_j_m3k * below);
         neumann_xi(beta, (a1 / a2).sqrt(), inv_ste)
     }
 

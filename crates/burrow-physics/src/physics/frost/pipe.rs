@@ -31,7 +31,7 @@ pub struct StagnantPipe {
     /// Volumetric heat capacity of water, J/(m³ K) (about 4.22 MJ/(m³ K) near 0 °C).
     pub water_heat_capacity_j_m3k: f64,
     /// Volumetric latent heat of freezing of water, J/m³ (about 333.5 MJ/m³).
-    pub water_latent_j_m3: f64,
+    pub water_latent_j_per_m3: f64,
     /// Freezing point of the water, °C (0 for drinking water).
     pub freezing_point_c: f64,
 }
@@ -54,7 +54,7 @@ pub struct StagnantRun {
 /// One step's outcome: the new enthalpy and the times (from the step start) of first ice and of
 /// complete freezing within the step.
 struct Step {
-    enthalpy_j_m: f64,
+    enthalpy_j_per_m: f64,
     ice_at_s: Option<f64>,
     frozen_at_s: Option<f64>,
 }
@@ -72,7 +72,7 @@ impl StagnantPipe {
             "the water heat capacity (J/(m³ K))",
             self.water_heat_capacity_j_m3k,
         )?;
-        check_positive("the water latent heat (J/m³)", self.water_latent_j_m3)?;
+        check_positive("the water latent heat (J/m³)", self.water_latent_j_per_m3)?;
         check_finite("the freezing point (°C)", self.freezing_point_c)
     }
 
@@ -93,7 +93,7 @@ impl StagnantPipe {
 
     /// Latent heat of the water per metre of pipe, J/m.
     fn latent_per_m(&self) -> f64 {
-        self.water_latent_j_m3 * self.area_m2()
+        self.water_latent_j_per_m3 * self.area_m2()
     }
 
     /// Enthalpy per metre (J/m) relative to liquid water at T_f, of water at `t_c` (°C).
@@ -123,7 +123,7 @@ impl StagnantPipe {
         let q_freeze = (self.freezing_point_c - ground_c) / self.resistance_m_k_per_w();
         let liquid_after = |from_c: f64, dt: f64| ground_c + (from_c - ground_c) * (-dt / tau).exp();
         let mut step = Step {
-            enthalpy_j_m: h,
+            enthalpy_j_per_m: h,
             ice_at_s: None,
             frozen_at_s: None,
         };
@@ -177,7 +177,7 @@ impl StagnantPipe {
                 t = dt_s;
             }
         }
-        step.enthalpy_j_m = h;
+        step.enthalpy_j_per_m = h;
         step
     }
 
@@ -209,7 +209,7 @@ impl StagnantPipe {
         self.check_start(initial_c, ground_c)?;
         check_non_negative("the time (s)", t_s)?;
         let step = self.advance(self.enthalpy_of_water(initial_c), ground_c, t_s);
-        Ok(self.state(step.enthalpy_j_m).1)
+        Ok(self.state(step.enthalpy_j_per_m).1)
     }
 
     /// Runs the pipe through a series of ground temperatures `ground_c` (°C), each held for
@@ -240,7 +240,7 @@ impl StagnantPipe {
             if let (None, Some(t)) = (run.fully_frozen_s, step.frozen_at_s) {
                 run.fully_frozen_s = Some(start + t);
             }
-            h = step.enthalpy_j_m;
+            h = step.enthalpy_j_per_m;
             let (water_c, ice) = self.state(h);
             run.max_ice_fraction = run.max_ice_fraction.max(ice);
             run.water_c.push(water_c);
@@ -251,7 +251,7 @@ impl StagnantPipe {
 }
 
 /// Outlet temperature (°C) of water entering a pipe of length `length_m` (m) at `inlet_c` (°C)
-/// with flow `flow_m3_s` (m³/s), surrounded by ground at `ground_c` (°C) through a resistance
+/// with flow `flow_m3_per_s` (m³/s), surrounded by ground at `ground_c` (°C) through a resistance
 /// `resistance_m_k_per_w` (m K/W, wall + ground per metre):
 /// `T(L) = T_g + (T_in − T_g) exp(−L / (Q ρc_p R'))`. Steady heat balance of the flowing water,
 /// Incropera & DeWitt, *Fundamentals of Heat and Mass Transfer*, §8.3.3 (the overall-resistance
@@ -260,17 +260,17 @@ pub fn outlet_temperature_c(
     inlet_c: f64,
     ground_c: f64,
     length_m: f64,
-    flow_m3_s: f64,
+    flow_m3_per_s: f64,
     water_heat_capacity_j_m3k: f64,
     resistance_m_k_per_w: f64,
 ) -> Result<f64, String> {
     check_finite("the inlet temperature (°C)", inlet_c)?;
     check_finite("the ground temperature (°C)", ground_c)?;
     check_non_negative("the pipe length (m)", length_m)?;
-    check_positive("the flow (m³/s)", flow_m3_s)?;
+    check_positive("the flow (m³/s)", flow_m3_per_s)?;
     check_positive("the water heat capacity (J/(m³ K))", water_heat_capacity_j_m3k)?;
     check_positive("the resistance per metre (m K/W)", resistance_m_k_per_w)?;
-    let decay = length_m / (flow_m3_s * water_heat_capacity_j_m3k * resistance_m_k_per_w);
+    let decay = length_m / (flow_m3_per_s * water_heat_capacity_j_m3k * resistance_m_k_per_w);
     Ok(ground_c + (inlet_c - ground_c) * (-decay).exp())
 }
 
@@ -279,7 +279,7 @@ pub fn outlet_temperature_c(
 /// (m K/W): [`outlet_temperature_c`] solved for the flow,
 /// `Q = L / (ρc_p R' ln((T_in − T_g)/(T_min − T_g)))`. Zero when the ground is not colder than
 /// `min_outlet_c`; an error when the inlet is not warmer than it.
-pub fn bleed_flow_m3_s(
+pub fn bleed_flow_m3_per_s(
     inlet_c: f64,
     ground_c: f64,
     min_outlet_c: f64,

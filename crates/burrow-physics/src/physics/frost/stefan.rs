@@ -25,19 +25,19 @@ pub struct FrostLayer {
     /// Volumetric heat capacity of the unfrozen soil, J/(m³ K).
     pub c_unfrozen_j_m3k: f64,
     /// Volumetric latent heat of the soil water, J/m³ (0 for a dry layer).
-    pub latent_j_m3: f64,
+    pub latent_j_per_m3: f64,
 }
 
 impl FrostLayer {
     /// A layer whose frozen and unfrozen properties are equal.
-    pub fn uniform(thickness_m: f64, k_w_mk: f64, c_j_m3k: f64, latent_j_m3: f64) -> Self {
+    pub fn uniform(thickness_m: f64, k_w_mk: f64, c_j_m3k: f64, latent_j_per_m3: f64) -> Self {
         Self {
             thickness_m,
             k_frozen_w_mk: k_w_mk,
             k_unfrozen_w_mk: k_w_mk,
             c_frozen_j_m3k: c_j_m3k,
             c_unfrozen_j_m3k: c_j_m3k,
-            latent_j_m3,
+            latent_j_per_m3,
         }
     }
 
@@ -81,7 +81,7 @@ pub(super) fn check_layers(layers: &[FrostLayer]) -> Result<(), String> {
             &format!("the unfrozen heat capacity of layer {n} (J/(m³ K))"),
             l.c_unfrozen_j_m3k,
         )?;
-        check_non_negative(&format!("the latent heat of layer {n} (J/m³)"), l.latent_j_m3)?;
+        check_non_negative(&format!("the latent heat of layer {n} (J/m³)"), l.latent_j_per_m3)?;
     }
     Ok(())
 }
@@ -105,12 +105,12 @@ pub(super) fn slices(layers: &[FrostLayer], depth_m: f64) -> Vec<(&FrostLayer, f
 
 /// Stefan's formula `X = sqrt(2 k_f F / L)` (TM 5-852-6 ch. 2): frost depth (m) for a frozen
 /// conductivity `k_frozen_w_mk` (W/(m K)), surface freezing index `index_c_s` (°C·s, = n × air
-/// index) and volumetric latent heat `latent_j_m3` (J/m³, > 0).
-pub fn stefan_depth_m(k_frozen_w_mk: f64, index_c_s: f64, latent_j_m3: f64) -> Result<f64, String> {
+/// index) and volumetric latent heat `latent_j_per_m3` (J/m³, > 0).
+pub fn stefan_depth_m(k_frozen_w_mk: f64, index_c_s: f64, latent_j_per_m3: f64) -> Result<f64, String> {
     check_positive("the frozen conductivity (W/(m K))", k_frozen_w_mk)?;
     check_non_negative("the surface freezing index (°C·s)", index_c_s)?;
-    check_positive("the volumetric latent heat (J/m³)", latent_j_m3)?;
-    Ok((2.0 * k_frozen_w_mk * index_c_s / latent_j_m3).sqrt())
+    check_positive("the volumetric latent heat (J/m³)", latent_j_per_m3)?;
+    Ok((2.0 * k_frozen_w_mk * index_c_s / latent_j_per_m3).sqrt())
 }
 
 /// Surface freezing index (°C·s) that freezes layered soil down to `depth_m` by the layered
@@ -136,7 +136,7 @@ pub(super) fn latent_resistance_sum(
     for (l, d) in slices(layers, depth_m) {
         let ki = k(l);
         let mid = resistance_above + d / (2.0 * ki);
-        with_latent += l.latent_j_m3 * d * mid;
+        with_latent += l.latent_j_per_m3 * d * mid;
         unit_latent += d * mid;
         resistance_above += d / ki;
     }
@@ -160,16 +160,17 @@ pub fn layered_stefan_depth_m(layers: &[FrostLayer], index_c_s: f64) -> Result<f
     for (i, l) in layers.iter().enumerate() {
         let k = l.k_frozen_w_mk;
         let last = i + 1 == layers.len();
-        if last && l.latent_j_m3 == 0.0 {
+        if last && l.latent_j_per_m3 == 0.0 {
             return Err(
                 "the deepest layer is dry, so Stefan's formula puts frost at any depth; give it latent heat"
                     .into(),
             );
         }
-        let whole = l.latent_j_m3 * l.thickness_m * (resistance_above + l.thickness_m / (2.0 * k));
+        let whole = l.latent_j_per_m3 * l.thickness_m * (resistance_above + l.thickness_m / (2.0 * k));
         if last || whole > left {
             let x = k
-                * (-resistance_above + (resistance_above.powi(2) + 2.0 * left / (k * l.latent_j_m3)).sqrt());
+                * (-resistance_above
+                    + (resistance_above.powi(2) + 2.0 * left / (k * l.latent_j_per_m3)).sqrt());
             return Ok(top + x);
         }
         left -= whole;

@@ -28,12 +28,12 @@ pub(crate) struct ResponseTable {
 }
 
 impl ResponseTable {
-    /// Responses at `taus_s` (strictly increasing, s) for ground diffusivity `alpha_m2_s`.
+    /// Responses at `taus_s` (strictly increasing, s) for ground diffusivity `alpha_m2_per_s`.
     /// With `cylinder`, each segment's own response gets the near-field correction
     /// `g_CS − g_ILS` at its radius.
     pub(crate) fn build(
         layout: &Layout,
-        alpha_m2_s: f64,
+        alpha_m2_per_s: f64,
         taus_s: &[f64],
         cylinder: Option<&CylinderSource>,
     ) -> Self {
@@ -43,7 +43,7 @@ impl ResponseTable {
         let mut running = vec![0.0; nd * nk];
         let rules = Rules::new();
         let d_min = layout.distances_m[0];
-        let s0 = |tau: f64| 1.0 / (4.0 * alpha_m2_s * tau).sqrt();
+        let s0 = |tau: f64| 1.0 / (4.0 * alpha_m2_per_s * tau).sqrt();
         let mut upper = (TAIL_CUT / d_min).max(s0(taus_s[0]));
         let mut distance_part = vec![0.0; nd];
         let mut segment_part = vec![0.0; nk];
@@ -74,7 +74,7 @@ impl ResponseTable {
             out.copy_from_slice(&running);
             if let Some(cs) = cylinder {
                 for t in &layout.self_terms {
-                    let fourier = alpha_m2_s * tau / (t.radius_m * t.radius_m);
+                    let fourier = alpha_m2_per_s * tau / (t.radius_m * t.radius_m);
                     out[t.distance * nk + t.key] += cs.correction(fourier);
                 }
             }
