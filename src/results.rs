@@ -451,9 +451,7 @@ pub struct FluxArrows {
     pub x_m: Vec<f64>,
     pub z_m: Vec<f64>,
     /// Components, W/m²: across (towards +x) and down (towards depth).
-    #[serde(rename = "qx_w_m2")]
     pub qx_w_per_m2: Vec<f64>,
-    #[serde(rename = "qz_w_m2")]
     pub qz_w_per_m2: Vec<f64>,
 }
 
