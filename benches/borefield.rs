@@ -6,9 +6,9 @@
 //! - 25 years of hourly loads (219 000 steps, FFT) once the g-function is known;
 //! - sizing of the active length (monthly loads with peaks), g-function work included;
 //! - the whole study as `burrow run` computes it.
+use burrow::kinds::borefield::run::Design;
 use burrow::model::StudyKind;
 use burrow::site;
-use burrow::studies::borefield::Design;
 use std::time::Instant;
 
 fn median_seconds(runs: usize, mut f: impl FnMut()) -> f64 {

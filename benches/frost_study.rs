@@ -10,8 +10,8 @@ use std::path::Path;
 use std::time::Instant;
 
 use burrow::ground::climate::SurfaceYear;
+use burrow::kinds::frost::numerical::{DEFAULT_RESOLUTION, Winter, board_trial, winter_run};
 use burrow::model::StudyKind;
-use burrow::studies::frost_numerical::{DEFAULT_RESOLUTION, Winter, board_trial, winter_run};
 
 /// CPU time of this process so far, s.
 fn cpu_s() -> f64 {

@@ -8,11 +8,11 @@ pub use burrow_physics::numerics::checks;
 pub use burrow_physics::{calendar, engine, materials, numerics, physics};
 
 pub mod ground;
+pub mod kinds;
 pub mod model;
 pub mod report;
 pub mod results;
 pub mod site;
-pub mod studies;
 pub mod templates;
 
 use results::{GroundResults, Level, Results, SiteInfo, Tool, Warning};
@@ -104,7 +104,7 @@ pub fn compute(
 ) -> Result<Results, String> {
     let site = &loaded.site;
     progress.stage("undisturbed ground temperature");
-    let depth = ground::profile::DEFAULT_PROFILE_DEPTH_M.max(studies::deepest_point_m(site));
+    let depth = ground::profile::DEFAULT_PROFILE_DEPTH_M.max(kinds::deepest_point_m(site));
     let undisturbed = ground::profile::undisturbed(site, depth)?;
     let profile = undisturbed.envelope(depth);
     let mut warnings: Vec<Warning> = loaded
@@ -121,7 +121,7 @@ pub fn compute(
     let mut study_results = Vec::new();
     for study in &site.studies {
         progress.stage(&format!("study {}", study.id));
-        let (result, mut raised) = studies::run(study, site, &undisturbed)?;
+        let (result, mut raised) = kinds::run(study, site, &undisturbed)?;
         study_results.push(result);
         warnings.append(&mut raised);
     }

@@ -1,9 +1,10 @@
 //! `kind: borefield` through the whole pipeline (site text → results), against closed forms,
 //! the g-function module called directly, and hand calculations.
 
+use burrow::kinds::borefield::BorefieldResult;
 use burrow::physics::gfunction::{Borehole, WallCondition, gfunction};
 use burrow::physics::superposition::MONTH_S;
-use burrow::results::{BorefieldResult, Figures, Level, Results};
+use burrow::results::{Figures, Level, Results};
 use burrow::site;
 use std::f64::consts::PI;
 use std::path::Path;
@@ -192,7 +193,7 @@ fn building_loads_become_ground_loads_by_cop_and_eer() {
         b.annual_loads.injected_mwh
     );
     assert_eq!(
-        burrow::studies::borefield::ground_from_building(100.0, 40.0, 4.0, 4.0),
+        burrow::kinds::borefield::run::ground_from_building(100.0, 40.0, 4.0, 4.0),
         (75.0, 50.0)
     );
 }
@@ -311,7 +312,7 @@ fn sized_length_meets_the_governing_limit_and_grows_with_the_load() {
 /// g-function computed at the length itself, from one hour to the design life.
 #[test]
 fn g_function_interpolated_in_length_matches_the_direct_one() {
-    use burrow::studies::borefield::{Design, GInterpolator};
+    use burrow::kinds::borefield::run::{Design, GInterpolator};
     let text = sizing_study(1.0);
     let loaded = site::load_text(&text, "t.yaml", Path::new(".")).unwrap();
     let s = &loaded.site;

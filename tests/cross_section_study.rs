@@ -1,6 +1,7 @@
 //! `kind: cross-section` through the whole pipeline (site text → engine → results).
 
-use burrow::results::{CrossSectionResult, Figures, Results};
+use burrow::kinds::cross_section::CrossSectionResult;
+use burrow::results::{Figures, Results};
 use burrow::site;
 use std::f64::consts::PI;
 use std::path::Path;

@@ -1,7 +1,8 @@
 //! `kind: frost` through the whole pipeline (site text → results), against closed forms and
 //! hand calculations.
 
-use burrow::results::{Figures, FrostResult, Level, Results};
+use burrow::kinds::frost::FrostResult;
+use burrow::results::{Figures, Level, Results};
 use burrow::site;
 use std::f64::consts::PI;
 use std::path::Path;
@@ -368,13 +369,13 @@ fn the_narrowest_board_keeps_the_crown_out_of_frost_and_a_narrower_one_does_not(
         panic!("frost")
     };
     let pipe = study.pipe.as_ref().unwrap();
-    let winter = burrow::studies::frost_numerical::Winter::new(
+    let winter = burrow::kinds::frost::numerical::Winter::new(
         burrow::ground::climate::SurfaceYear::from_climate(&site.climate),
         181.0 * 86_400.0,
         f.design_freezing_index_c_days,
     )
     .unwrap();
-    let narrower = burrow::studies::frost_numerical::board_trial(
+    let narrower = burrow::kinds::frost::numerical::board_trial(
         site,
         &ground,
         pipe,

@@ -1,6 +1,7 @@
 //! `kind: heat-loss` through the whole pipeline (site text → results), against closed forms.
 
-use burrow::results::{Figures, HeatLossResult, Results};
+use burrow::kinds::heat_loss::HeatLossResult;
+use burrow::results::{Figures, Results};
 use burrow::site;
 use std::f64::consts::PI;
 use std::path::Path;

@@ -4,7 +4,7 @@
 mod common;
 
 use burrow::engine::section::{Drive, Geometry, GridOptions, Pipe, Snapshot, solve_steady};
-use burrow::studies::cross_section::flux_arrows;
+use burrow::kinds::cross_section::run::flux_arrows;
 use common::uniform_soil;
 
 const K: f64 = 1.5;

@@ -251,7 +251,7 @@ pub fn study_summary(s: &StudyResult) -> (String, String) {
                 )
             };
             let margin = b.coldest_fluid_c - b.fluid_freezing_point_c;
-            if margin < crate::studies::borefield::ANTIFREEZE_MARGIN_K {
+            if margin < crate::kinds::borefield::run::ANTIFREEZE_MARGIN_K {
                 verdict.push_str(&format!(
                     "; FAILS: coldest fluid only {margin:.1} K above freezing"
                 ));
@@ -421,12 +421,7 @@ fn studies(h: &mut String, r: &Results, site: &Site, figures: &[Vec<Figure>]) {
                 esc(&e.text)
             );
         }
-        match &s.figures {
-            Figures::HeatLoss(hl) => super::heat_loss::section(h, hl),
-            Figures::Frost(f) => super::frost::section(h, f),
-            Figures::CrossSection(c) => super::cross_section::section(h, c),
-            Figures::Borefield(b) => super::borefield::section(h, b),
-        }
+        s.figures.section(h);
         figure_list(h, figs);
         let _ = write!(h, "</section>\n");
     }

@@ -4,16 +4,12 @@
 //! The bundle is written into a temporary folder beside the target and renamed into place, so a
 //! failed run leaves either the previous bundle or nothing, never half of one.
 
-pub mod borefield;
-pub mod cross_section;
 pub mod csv;
-pub mod frost;
-pub mod heat_loss;
 pub mod html;
 pub mod plot;
 
 use crate::model::Site;
-use crate::results::{Figures, Results};
+use crate::results::Results;
 use std::path::Path;
 
 /// One figure of the report: its file stem, caption and rendering.
@@ -51,12 +47,7 @@ pub fn figures(results: &Results) -> Result<ReportFigures, String> {
     let studies = results
         .studies
         .iter()
-        .map(|s| match &s.figures {
-            Figures::HeatLoss(h) => heat_loss::figures(s, h),
-            Figures::Frost(f) => frost::figures(s, f),
-            Figures::CrossSection(c) => cross_section::figures(s, c),
-            Figures::Borefield(b) => borefield::figures(s, b),
-        })
+        .map(|s| s.figures.figures(s))
         .collect::<Result<_, _>>()?;
     Ok(ReportFigures { ground, studies })
 }
@@ -68,17 +59,7 @@ fn csv_files(results: &Results) -> Vec<(String, String)> {
         ("surface-temperature.csv".to_string(), csv::surface_daily(results)),
     ];
     for s in &results.studies {
-        match &s.figures {
-            Figures::HeatLoss(h) => files.push((format!("{}-monthly.csv", s.id), heat_loss::monthly_csv(h))),
-            Figures::Frost(f) => files.extend(frost::csv_files(s, f)),
-            Figures::CrossSection(c) => {
-                files.push((format!("{}-series.csv", s.id), cross_section::series_csv(c)))
-            }
-            Figures::Borefield(b) => {
-                files.push((format!("{}-fluid.csv", s.id), borefield::fluid_csv(b)));
-                files.push((format!("{}-g-function.csv", s.id), borefield::g_function_csv(b)));
-            }
-        }
+        files.extend(s.figures.csv_files(s));
     }
     files
 }

@@ -1891,6 +1891,20 @@ fn label_point(
         .max_by(|a, b| clearance(*a).total_cmp(&clearance(*b)))
 }
 
+/// Isotherms at round steps giving about eight lines over the range.
+pub fn isotherm_levels(lo: f64, hi: f64) -> Vec<f64> {
+    let span = (hi - lo).max(1e-9);
+    let step = [0.5, 1.0, 2.0, 2.5, 5.0, 10.0, 20.0]
+        .into_iter()
+        .find(|s| span / s <= 9.0)
+        .unwrap_or(20.0);
+    let first = (lo / step).ceil() * step;
+    (0..40)
+        .map(|i| first + i as f64 * step)
+        .take_while(|v| *v < hi)
+        .collect()
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

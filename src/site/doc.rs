@@ -8,6 +8,8 @@ use super::quantity::*;
 use schemars::JsonSchema;
 use serde::Deserialize;
 
+pub use crate::kinds::StudyDoc;
+
 /// A burrow site file: where the site is, what drives its ground surface, its soil, and the
 /// studies to run.
 #[derive(Debug, Deserialize, JsonSchema)]
@@ -135,33 +137,6 @@ pub struct LayerDoc {
     pub freezing_interval: Option<Q<TemperatureDifference>>,
 }
 
-/// One study; `kind` says which, and each kind has its own keys.
-#[derive(Debug, Deserialize, JsonSchema)]
-#[serde(tag = "kind", rename_all = "kebab-case")]
-pub enum StudyDoc {
-    /// Heat loss of buried district-heating pipes, insulation sizing, neighbouring utilities.
-    HeatLoss(super::kinds::heat_loss::HeatLossDoc),
-    /// A free 2-D cross-section of the ground solved by the finite-volume engine.
-    CrossSection(super::kinds::cross_section::CrossSectionDoc),
-    /// Design freezing index, frost depth by Stefan, modified Berggren and the engine's design
-    /// winter, and a water main's safety (cover, stagnant water, bleed flow, insulation board).
-    Frost(super::kinds::frost::FrostDoc),
-    /// A field of ground heat exchangers for a heat pump: g-function, borehole resistance, fluid
-    /// temperatures over the design life, and length sizing.
-    Borefield(Box<super::kinds::borefield::BorefieldDoc>),
-}
-
-impl StudyDoc {
-    pub fn id(&self) -> &str {
-        match self {
-            StudyDoc::HeatLoss(d) => &d.id,
-            StudyDoc::Frost(d) => &d.id,
-            StudyDoc::CrossSection(d) => &d.id,
-            StudyDoc::Borefield(d) => &d.id,
-        }
-    }
-}
-
 /// A pipe in a cross-section, described the same way in every study kind.
 #[derive(Debug, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
@@ -239,4 +214,13 @@ pub struct PipeFluidDoc {
 pub enum OneOrMonthly {
     One(Q<Temperature>),
     Monthly(#[schemars(length(min = 12, max = 12))] Vec<Q<Temperature>>),
+}
+
+/// Which solution to use.
+#[derive(Clone, Copy, Debug, Deserialize, JsonSchema, PartialEq, Eq)]
+#[serde(rename_all = "kebab-case")]
+pub enum MethodDoc {
+    Analytic,
+    Numerical,
+    Both,
 }

@@ -9,7 +9,6 @@
 
 pub mod diagnostic;
 pub mod doc;
-pub mod kinds;
 pub mod quantity;
 pub mod schema;
 pub mod series_file;

@@ -484,80 +484,10 @@ fn studies(docs: &[StudyDoc], path: &KeyPath, v: &mut Validator) -> Option<Vec<S
     let studies: Vec<Option<Study>> = docs
         .iter()
         .enumerate()
-        .map(|(i, s)| study(s, &path.index(i), v))
+        .map(|(i, s)| s.validate(&path.index(i), v))
         .collect();
     let studies: Option<Vec<Study>> = studies.into_iter().collect();
     if ok { studies } else { None }
-}
-
-fn study(doc: &StudyDoc, path: &KeyPath, v: &mut Validator) -> Option<Study> {
-    use super::kinds::{borefield, cross_section, frost, heat_loss, method};
-    match doc {
-        StudyDoc::CrossSection(d) => {
-            let m = method(
-                d.method,
-                Method::Numerical,
-                &[Method::Numerical],
-                &path.key("method"),
-                v,
-            );
-            let section = cross_section::validate(d, path, v);
-            Some(Study {
-                id: d.id.clone(),
-                method: m?,
-                echo: None,
-                kind: StudyKind::CrossSection(section?),
-            })
-        }
-        StudyDoc::Frost(d) => {
-            let m = method(
-                d.method,
-                Method::Analytic,
-                &frost::METHODS,
-                &path.key("method"),
-                v,
-            );
-            let study = frost::validate(d, path, v);
-            Some(Study {
-                id: d.id.clone(),
-                method: m?,
-                echo: None,
-                kind: StudyKind::Frost(study?),
-            })
-        }
-        StudyDoc::HeatLoss(d) => {
-            let m = method(
-                d.method,
-                Method::Analytic,
-                &heat_loss::METHODS,
-                &path.key("method"),
-                v,
-            );
-            let study = heat_loss::validate(d, path, v);
-            Some(Study {
-                id: d.id.clone(),
-                method: m?,
-                echo: None,
-                kind: StudyKind::HeatLoss(study?),
-            })
-        }
-        StudyDoc::Borefield(d) => {
-            let m = method(
-                d.method,
-                Method::Analytic,
-                &borefield::METHODS,
-                &path.key("method"),
-                v,
-            );
-            let study = borefield::validate(d, path, v);
-            Some(Study {
-                id: d.id.clone(),
-                method: m?,
-                echo: None,
-                kind: StudyKind::Borefield(Box::new(study?)),
-            })
-        }
-    }
 }
 
 /// Validates cylindrical wall layers listed inside-out (each thickness positive, each
@@ -783,6 +713,36 @@ pub fn fluid_temperature(t: &OneOrMonthly, path: &KeyPath, v: &mut Validator) ->
         monthly_c[m] = t;
     }
     Some(PipeDrive::FluidTemperature { monthly_c })
+}
+
+/// The method a study asked for, checked against those its kind offers.
+pub fn method(
+    doc: Option<super::doc::MethodDoc>,
+    default: Method,
+    allowed: &[Method],
+    path: &KeyPath,
+    v: &mut Validator,
+) -> Option<Method> {
+    let m = match doc {
+        None => default,
+        Some(super::doc::MethodDoc::Analytic) => Method::Analytic,
+        Some(super::doc::MethodDoc::Numerical) => Method::Numerical,
+        Some(super::doc::MethodDoc::Both) => Method::Both,
+    };
+    if allowed.contains(&m) {
+        Some(m)
+    } else {
+        let names: Vec<&str> = allowed.iter().map(|m| m.name()).collect();
+        v.out.error(
+            path,
+            format!(
+                "this study kind offers the method(s) {}, not `{}`",
+                names.join(", "),
+                m.name()
+            ),
+        );
+        None
+    }
 }
 
 #[cfg(test)]

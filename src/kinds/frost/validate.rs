@@ -1,13 +1,15 @@
-//! `kind: frost`: design freezing index, frost depth, and whether a water main is safe.
+//! Validation of a `kind: frost` study's keys into its model: units, ranges, references,
+//! geometry; every problem located.
 
-use super::MethodDoc;
-use crate::model::{Frost, FrostBleed, FrostBoard, Method, PipeDrive};
+use super::doc::*;
+
+use crate::model::{Method, PipeDrive};
+use super::Frost;
+use super::FrostBleed;
+use super::FrostBoard;
 use crate::site::diagnostic::KeyPath;
-use crate::site::doc::PipeDoc;
-use crate::site::quantity::*;
 use crate::site::validate::{self, Validator};
-use schemars::JsonSchema;
-use serde::Deserialize;
+
 
 /// The methods this kind offers: the analytic formulas, the engine's winter run, or both.
 pub const METHODS: [Method; 3] = [Method::Analytic, Method::Numerical, Method::Both];
@@ -22,96 +24,12 @@ pub const DEFAULT_BOARD_MAX_WIDTH_M: f64 = 3.0;
 /// about 35 kg/m3 × 1450 J/(kg K) (from memory; its effect on a winter is negligible).
 pub const DEFAULT_BOARD_HEAT_CAPACITY_J_PER_M3_K: f64 = 0.05e6;
 
-/// Frost penetration under the site's climate and whether a water main at its cover stays
-/// frost-free.
-#[derive(Debug, Deserialize, JsonSchema)]
-#[serde(deny_unknown_fields)]
-pub struct FrostDoc {
-    /// A unique name for the study, used in the report and in file names (letters, digits, `-`,
-    /// `_`, `.`).
-    pub id: String,
-    /// `analytic` (Stefan and modified Berggren, the default), `numerical` (the finite-volume
-    /// engine's run of the design winter with the pipe in place, after two spin-up years) or
-    /// `both`.
-    #[serde(default)]
-    pub method: Option<MethodDoc>,
-    /// The main or service line to check (optional).
-    #[serde(default)]
-    pub pipe: Option<PipeDoc>,
-    /// A design AIR freezing index from a local design table; overrides the one derived from the
-    /// climate and is turned into a surface index with the freezing n-factor.
-    #[serde(default)]
-    pub design_freezing_index: Option<Q<DegreeDays>>,
-    /// Surface type whose n-factors replace the climate's (see `burrow materials`): e.g. `turf`,
-    /// `snow-cleared-asphalt`.
-    #[serde(default)]
-    pub surface: Option<String>,
-    /// Return period of the design winter (Gumbel fit of the seasonal indices of a multi-year
-    /// series); default: the mean of the three coldest winters (TM 5-852-6).
-    #[serde(default)]
-    pub return_period: Option<Q<Time>>,
-    /// Clearance between the frost depth and the pipe crown for the required cover (default 0.2 m,
-    /// common practice).
-    #[serde(default)]
-    pub margin: Option<Q<Length>>,
-    /// A period without flow in the coldest weather: how long the water stands.
-    #[serde(default)]
-    pub stagnant: Option<StagnantDoc>,
-    /// First day of the freezing season over which the freezing index is counted, as `MM-DD`
-    /// (default `07-01`, 1 July; use e.g. `01-01` in the southern hemisphere).
-    #[serde(default)]
-    pub season_start: Option<String>,
-    /// Find the flow that keeps the water above freezing along a length of main in the coldest
-    /// ground (needs a pipe driven by its water temperature).
-    #[serde(default)]
-    pub bleed: Option<Box<BleedDoc>>,
-    /// An insulation board laid flat above the main: when frost reaches the main, the study
-    /// finds the narrowest width that keeps the crown above 0 °C (engine runs).
-    #[serde(default)]
-    pub board: Option<Box<BoardDoc>>,
-}
-
-#[derive(Debug, Deserialize, JsonSchema)]
-#[serde(deny_unknown_fields)]
-pub struct BleedDoc {
-    /// Length of main between the warm supply and the far end, in m.
-    pub length: Q<Length>,
-    /// Lowest water temperature allowed at the far end, in °C (default 0 °C).
-    #[serde(default)]
-    pub min_temperature: Option<Q<Temperature>>,
-}
-
-#[derive(Debug, Deserialize, JsonSchema)]
-#[serde(deny_unknown_fields)]
-pub struct BoardDoc {
-    /// Board thickness, in m.
-    pub thickness: Q<Length>,
-    /// Board thermal conductivity, in W/(m K) (extruded polystyrene about 0.03–0.04).
-    pub conductivity: Q<Conductivity>,
-    /// Board volumetric heat capacity, in J/(m3 K) (default 0.05e6, extruded polystyrene).
-    #[serde(default)]
-    pub heat_capacity: Option<Q<VolumetricHeatCapacity>>,
-    /// Clear distance between the board's underside and the pipe crown, in m (default 0.1 m).
-    #[serde(default)]
-    pub gap: Option<Q<Length>>,
-    /// Widest board to try, in m (default 3 m).
-    #[serde(default)]
-    pub max_width: Option<Q<Length>>,
-}
-
 /// `MM-DD` → (month, day) of a day every year has.
 fn month_day(text: &str) -> Option<(u32, u32)> {
     let (m, d) = text.trim().split_once('-')?;
     let (m, d): (u32, u32) = (m.parse().ok()?, d.parse().ok()?);
     const DAYS: [u32; 12] = [31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
     ((1..=12).contains(&m) && d >= 1 && d <= DAYS[(m - 1) as usize]).then_some((m, d))
-}
-
-#[derive(Debug, Deserialize, JsonSchema)]
-#[serde(deny_unknown_fields)]
-pub struct StagnantDoc {
-    /// How long the water stands still.
-    pub duration: Q<Time>,
 }
 
 pub fn validate(doc: &FrostDoc, path: &KeyPath, v: &mut Validator) -> Option<Frost> {

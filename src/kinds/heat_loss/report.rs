@@ -3,10 +3,12 @@
 // HTML is written line by line; a trailing `\n` in `write!` keeps the markup readable.
 #![allow(clippy::write_with_newline)]
 
-use super::Figure;
-use super::html::esc;
-use super::plot::{FieldPlot, LinePlot, Series, SeriesStyle, render_field_plot, render_line_plot};
-use crate::results::{HeatLossResult, StudyResult};
+use crate::report::Figure;
+use crate::report::plot::isotherm_levels;
+use crate::report::html::esc;
+use crate::report::plot::{FieldPlot, LinePlot, Series, SeriesStyle, render_field_plot, render_line_plot};
+use crate::results::StudyResult;
+use super::HeatLossResult;
 use std::fmt::Write;
 
 pub fn figures(s: &StudyResult, h: &HeatLossResult) -> Result<Vec<Figure>, String> {
@@ -133,20 +135,6 @@ pub fn figures(s: &StudyResult, h: &HeatLossResult) -> Result<Vec<Figure>, Strin
         }
     }
     Ok(out)
-}
-
-/// Isotherms at round steps giving about eight lines over the range.
-pub fn isotherm_levels(lo: f64, hi: f64) -> Vec<f64> {
-    let span = (hi - lo).max(1e-9);
-    let step = [0.5, 1.0, 2.0, 2.5, 5.0, 10.0, 20.0]
-        .into_iter()
-        .find(|s| span / s <= 9.0)
-        .unwrap_or(20.0);
-    let first = (lo / step).ceil() * step;
-    (0..40)
-        .map(|i| first + i as f64 * step)
-        .take_while(|v| *v < hi)
-        .collect()
 }
 
 pub fn section(h_out: &mut String, h: &HeatLossResult) {
@@ -284,7 +272,7 @@ pub fn section(h_out: &mut String, h: &HeatLossResult) {
 }
 
 /// The twin pipe's resistances and its symmetric/antisymmetric split.
-fn twin_section(h_out: &mut String, t: &crate::results::TwinResult) {
+fn twin_section(h_out: &mut String, t: &crate::kinds::heat_loss::TwinResult) {
     let _ = write!(
         h_out,
         "<h4>Twin pipe {}</h4>\n<p>Both carriers in one casing of {:.0} mm, {:.0} mm apart; Wallentén's first-order formulas (the form of EN 15698-1): symmetric resistance {:.4} m K/W (insulation, casing and ground; h<sub>s</sub> = {:.4}), antisymmetric {:.4} m K/W between the carriers (h<sub>a</sub> = {:.4}); insulation {:.4} W/(m K){}. Symmetric part (the twin's loss) {:.2} W/m, {:.1} kWh/m per year; supply → return {:.2} W/m.</p>\n",

@@ -4,11 +4,13 @@
 use crate::calendar::{civil_from_days, days_from_civil};
 use crate::ground::climate::SurfaceYear;
 use crate::ground::profile::Undisturbed;
-use crate::model::{Climate, DAY_S, Frost, Method, NFactors, Pipe, PipeDrive, Site};
+use crate::model::{Climate, DAY_S, Method, NFactors, Pipe, PipeDrive, Site};
+use super::Frost;
 use crate::physics::buried_pipe::{GroundForm, Soil, ground::ground_resistance_m_k_per_w};
 use crate::physics::frost as fp;
 use crate::results::*;
-use crate::studies::frost_numerical::{self as numerical, DEFAULT_RESOLUTION, PipeRun, Winter};
+use super::result::*;
+use super::numerical::{self, DEFAULT_RESOLUTION, PipeRun, Winter};
 
 /// Volumetric heat capacity of water near 0 °C, J/(m3 K): 999.8 kg/m3 × 4219 J/(kg K) (IAPWS-95
 /// at 0.01 °C, from memory).
@@ -242,7 +244,7 @@ fn numerical_figures(
 /// The board search (only when frost reaches the crown by the governing depth).
 fn board_figures(
     pipe: &Pipe,
-    board: &crate::model::FrostBoard,
+    board: &crate::kinds::frost::FrostBoard,
     site: &Site,
     ground: &Undisturbed,
     winter: &Winter,

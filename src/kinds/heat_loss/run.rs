@@ -6,10 +6,11 @@
 //! cylinders; each month a steady state of that month's fluid temperatures against the month's
 //! undisturbed ground temperature at the pipe's depth (EN 13941-1 practice).
 
-mod numerical;
 
 use crate::ground::profile::Undisturbed;
-use crate::model::{HeatLoss, InsulationLaw, Method, Pipe, PipeDrive, Site, TwinCasing};
+use crate::model::{InsulationLaw, Method, Pipe, PipeDrive, Site};
+use super::HeatLoss;
+use super::TwinCasing;
 use crate::physics::buried_pipe::seasonal::{annual_energy_kwh_per_m, monthly_pipe_states};
 use crate::physics::buried_pipe::sizing::{cheapest, present_value_factor};
 use crate::physics::buried_pipe::system::{
@@ -22,7 +23,8 @@ use crate::physics::buried_pipe::wall::{
 };
 use crate::physics::buried_pipe::{GroundForm, Position, Soil};
 use crate::results::*;
-use numerical::{Responses, TwinBody};
+use super::result::*;
+use super::numerical::{self, Responses, TwinBody};
 use rayon::prelude::*;
 
 /// Layers within twice the pipe depth whose conductivity differs from the one used by more than
@@ -513,7 +515,7 @@ fn neighbours(
 fn sizing(
     id: &str,
     study: &HeatLoss,
-    s: &crate::model::Sizing,
+    s: &crate::kinds::heat_loss::Sizing,
     site: &Site,
     ground_c: &[[f64; 12]],
     soil: &Soil,

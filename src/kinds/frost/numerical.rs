@@ -22,9 +22,10 @@ use crate::engine::section::{
 };
 use crate::ground::climate::SurfaceYear;
 use crate::ground::profile::Undisturbed;
-use crate::model::{DAY_S, FrostBoard, Pipe, Site, YEAR_S};
+use crate::model::{DAY_S, Pipe, Site, YEAR_S};
+use super::FrostBoard;
 use crate::physics::frost as fp;
-use crate::studies::cross_section::{engine_pipe, sample, soil_layers};
+use crate::kinds::engine_model::{engine_pipe, sample, soil_layers};
 
 /// Mesh and steps of the frost runs.
 #[derive(Clone, Copy, Debug, PartialEq)]

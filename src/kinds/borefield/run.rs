@@ -25,7 +25,11 @@
 
 use crate::ground::profile::Undisturbed;
 use crate::materials::fluids::Fluid;
-use crate::model::{Borefield, BoreholeWall, GroundLoads, HeatExchanger, Site, SoilLayer};
+use crate::model::{Site, SoilLayer};
+use super::Borefield;
+use super::BoreholeWall;
+use super::GroundLoads;
+use super::HeatExchanger;
 use crate::physics::borehole::{
     self, BoreholeResistances, Coaxial, DEFAULT_MULTIPOLE_ORDER, DoubleU, SingleU,
 };
@@ -37,11 +41,17 @@ use crate::physics::pipe_flow::{
 use crate::physics::superposition::{
     self, BoreholeOperation, FluidTemperatures, MONTH_S, MonthlyLoads, SampledStepResponse,
 };
-use crate::results::{
-    AnnualGroundLoads, BorefieldFluid, BorefieldGround, BorefieldResult, BorefieldSizing, FluidLimits,
-    FluidMonth, FluidTemperatureFigures, GPoint, Level, Warning,
-};
-use crate::site::kinds::borefield::SIZING_RANGE_M;
+use crate::results::{Level, Warning};
+use super::AnnualGroundLoads;
+use super::BorefieldFluid;
+use super::BorefieldGround;
+use super::BorefieldResult;
+use super::BorefieldSizing;
+use super::FluidLimits;
+use super::FluidMonth;
+use super::FluidTemperatureFigures;
+use super::GPoint;
+use super::validate::SIZING_RANGE_M;
 use std::f64::consts::PI;
 
 /// Lengths at which sizing computes the g-function before interpolating in ln H.
