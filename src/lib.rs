@@ -147,6 +147,7 @@ pub fn compute(
             energy_balance_relative_error: undisturbed.energy_balance_relative_error,
         },
         studies: study_results,
+        failed_studies: Vec::new(),
         warnings,
     })
 }

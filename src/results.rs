@@ -11,7 +11,17 @@ pub struct Results {
     pub site: SiteInfo,
     pub ground: GroundResults,
     pub studies: Vec<StudyResult>,
+    /// Studies that could not be run, each with the reason (the other studies still ran).
+    pub failed_studies: Vec<StudyFailure>,
     pub warnings: Vec<Warning>,
+}
+
+/// A study that failed to run: which, and why (one sentence).
+#[derive(Clone, Debug, Serialize, PartialEq)]
+pub struct StudyFailure {
+    pub id: String,
+    pub kind: String,
+    pub reason: String,
 }
 
 #[derive(Clone, Debug, Serialize)]
