@@ -25,13 +25,18 @@ pub const VERSION: &str = env!("CARGO_PKG_VERSION");
 /// The sentence every report and every run states.
 pub const CAUTION: &str = "burrow's results are estimates for design support. They must be checked by a qualified engineer, and they do not replace local codes, utility standards or licensed practice (minimum cover depths, pipe standards, well and borehole regulations), which govern.";
 
-/// Why a run stopped.
+/// Why a run stopped before writing a bundle. A study that fails does not stop the run: it is
+/// listed in the results' `failed_studies` (see [`StudyError`]) and the others still run.
 #[derive(Debug)]
 pub enum RunError {
     /// The site file has errors; every problem found, located.
     Invalid(Vec<Diagnostic>),
-    /// A solver or the bundle writer failed; one sentence.
-    Failed(String),
+    /// The site file could not be read again for its checksum.
+    Read(String),
+    /// The undisturbed ground, which every study needs, could not be solved.
+    Ground(String),
+    /// The bundle could not be written.
+    Bundle(String),
 }
 
 impl std::fmt::Display for RunError {
@@ -43,8 +48,24 @@ impl std::fmt::Display for RunError {
                 }
                 Ok(())
             }
-            RunError::Failed(m) => write!(f, "{m}"),
+            RunError::Read(m) => write!(f, "{m}"),
+            RunError::Ground(m) => write!(f, "the undisturbed ground could not be solved: {m}"),
+            RunError::Bundle(m) => write!(f, "the report bundle could not be written: {m}"),
         }
+    }
+}
+
+/// A study that failed to run: which study, of which kind, and why (one sentence).
+#[derive(Clone, Debug, PartialEq)]
+pub struct StudyError {
+    pub study: String,
+    pub kind: &'static str,
+    pub message: String,
+}
+
+impl std::fmt::Display for StudyError {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        write!(f, "study {} ({}) failed: {}", self.study, self.kind, self.message)
     }
 }
 
@@ -71,14 +92,14 @@ impl Progress for Silent {}
 pub fn run(site_path: &Path, out_dir: &Path, progress: &dyn Progress) -> Result<RunSummary, RunError> {
     let loaded = site::load(site_path).map_err(RunError::Invalid)?;
     let bytes = std::fs::read(site_path)
-        .map_err(|e| RunError::Failed(format!("cannot read {}: {e}", site_path.display())))?;
+        .map_err(|e| RunError::Read(format!("cannot read {}: {e}", site_path.display())))?;
     let input_file = site_path
         .file_name()
         .map(|n| n.to_string_lossy().into_owned())
         .unwrap_or_default();
-    let results = compute(&loaded, &input_file, &bytes, progress).map_err(RunError::Failed)?;
+    let results = compute(&loaded, &input_file, &bytes, progress)?;
     progress.stage("writing the report");
-    report::write_bundle(&results, &loaded.site, out_dir).map_err(RunError::Failed)?;
+    report::write_bundle(&results, &loaded.site, out_dir).map_err(RunError::Bundle)?;
     Ok(RunSummary {
         bundle: out_dir.to_path_buf(),
         results,
@@ -95,17 +116,19 @@ pub fn default_out_dir(site_path: &Path) -> PathBuf {
     Path::new("out").join(stem)
 }
 
-/// Solves every study of a validated site: model in, plain results out.
+/// Solves every study of a validated site: model in, plain results out. A study that fails is
+/// listed in `failed_studies` with its reason and the others still run; only a failure of the
+/// undisturbed ground, which every study needs, stops the run.
 pub fn compute(
     loaded: &Loaded,
     input_file: &str,
     input_bytes: &[u8],
     progress: &dyn Progress,
-) -> Result<Results, String> {
+) -> Result<Results, RunError> {
     let site = &loaded.site;
     progress.stage("undisturbed ground temperature");
     let depth = ground::profile::DEFAULT_PROFILE_DEPTH_M.max(kinds::deepest_point_m(site));
-    let undisturbed = ground::profile::undisturbed(site, depth)?;
+    let undisturbed = ground::profile::undisturbed(site, depth).map_err(RunError::Ground)?;
     let profile = undisturbed.envelope(depth);
     let mut warnings: Vec<Warning> = loaded
         .warnings
@@ -119,11 +142,20 @@ pub fn compute(
         })
         .collect();
     let mut study_results = Vec::new();
+    let mut failed_studies = Vec::new();
     for study in &site.studies {
         progress.stage(&format!("study {}", study.id));
-        let (result, mut raised) = kinds::run(study, site, &undisturbed)?;
-        study_results.push(result);
-        warnings.append(&mut raised);
+        match kinds::run(study, site, &undisturbed) {
+            Ok((result, mut raised)) => {
+                study_results.push(result);
+                warnings.append(&mut raised);
+            }
+            Err(e) => failed_studies.push(results::StudyFailure {
+                id: e.study,
+                kind: e.kind.into(),
+                reason: e.message,
+            }),
+        }
     }
     warnings.sort_by_key(|w| std::cmp::Reverse(w.level));
     Ok(Results {
@@ -147,7 +179,7 @@ pub fn compute(
             energy_balance_relative_error: undisturbed.energy_balance_relative_error,
         },
         studies: study_results,
-        failed_studies: Vec::new(),
+        failed_studies,
         warnings,
     })
 }

@@ -164,10 +164,23 @@ fn run(site: PathBuf, out: Option<PathBuf>, quiet: bool, strict: bool) -> ExitCo
                 let study = w.study.as_deref().map(|s| format!(" [{s}]")).unwrap_or_default();
                 eprintln!("{word}{study} {}: {}", w.code, w.message);
             }
+            for f in &summary.results.failed_studies {
+                eprintln!(
+                    "FAILED [{}] study {} ({}) did not run: {}",
+                    f.id, f.id, f.kind, f.reason
+                );
+            }
             println!("wrote {}", summary.bundle.join("report.html").display());
             println!("{}", burrow::CAUTION);
             let danger = summary.results.warnings.iter().any(|w| w.level == Level::Danger);
-            if strict && danger {
+            if !summary.results.failed_studies.is_empty() {
+                eprintln!(
+                    "{} of {} studies failed; the report lists the others and why each failed.",
+                    summary.results.failed_studies.len(),
+                    summary.results.failed_studies.len() + summary.results.studies.len()
+                );
+                ExitCode::from(1)
+            } else if strict && danger {
                 ExitCode::from(3)
             } else {
                 ExitCode::SUCCESS

@@ -99,6 +99,26 @@ pub struct Check {
     pub message: String,
 }
 
+impl Check {
+    pub fn new(
+        code: &str,
+        passed: bool,
+        value: Option<f64>,
+        limit: Option<f64>,
+        unit: &str,
+        message: String,
+    ) -> Self {
+        Self {
+            code: code.into(),
+            passed,
+            value,
+            limit,
+            unit: unit.into(),
+            message,
+        }
+    }
+}
+
 /// A constant, tolerance or default a study used, for the report and the record.
 #[derive(Clone, Debug, Serialize, PartialEq)]
 pub struct Assumption {
@@ -107,6 +127,17 @@ pub struct Assumption {
     pub unit: String,
     /// Where the value comes from (a standard, a paper, `common practice, no source`).
     pub source: String,
+}
+
+impl Assumption {
+    pub fn new(name: &str, value: f64, unit: &str, source: &str) -> Self {
+        Self {
+            name: name.into(),
+            value,
+            unit: unit.into(),
+            source: source.into(),
+        }
+    }
 }
 
 /// Which direction of a decisive figure is unsafe or costly.

@@ -93,10 +93,48 @@ fn every_example_checks_and_runs() {
                 serde_json::from_str(&std::fs::read_to_string(out.join("results.json")).unwrap()).unwrap();
             assert_eq!(results["tool"]["name"], "burrow");
             assert!(results["ground"]["profile"].as_array().unwrap().len() >= 61);
+            decisive_figures_point_at_their_values(&results, &stem);
             n += 1;
         }
     }
     assert!(n >= 3, "expected an example per user group");
+}
+
+/// Every decisive figure's `key` is a dotted path to the same value in the study's entry, and a
+/// check it names is one of the study's checks (the generic access the summary, uncertainty and
+/// inventories rely on).
+fn decisive_figures_point_at_their_values(results: &serde_json::Value, name: &str) {
+    for study in results["studies"].as_array().unwrap() {
+        let figures = study["decisive_figures"].as_array().unwrap();
+        assert!(
+            !figures.is_empty(),
+            "{name}: study {} has no decisive figure",
+            study["id"]
+        );
+        let codes: Vec<&str> = study["checks"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .map(|c| c["code"].as_str().unwrap())
+            .collect();
+        for f in figures {
+            let key = f["key"].as_str().unwrap();
+            let mut v = study;
+            for part in key.split('.') {
+                v = match part.split_once('[') {
+                    Some((k, i)) => &v[k][i.trim_end_matches(']').parse::<usize>().unwrap()],
+                    None => &v[part],
+                };
+            }
+            assert_eq!(v.as_f64(), f["value"].as_f64(), "{name}: decisive figure {key}");
+            if let Some(code) = f["check"].as_str() {
+                assert!(
+                    codes.contains(&code),
+                    "{name}: {key} names the check {code}, not among {codes:?}"
+                );
+            }
+        }
+    }
 }
 
 #[test]
@@ -107,7 +145,10 @@ fn every_starter_template_checks_and_runs() {
         let file = dir.join(format!("{name}.yaml"));
         std::fs::write(&file, text).unwrap();
         site::load(&file).unwrap_or_else(|e| panic!("{name}: {e:?}"));
-        run_bundle(&file, name);
+        let out = run_bundle(&file, name);
+        let results: serde_json::Value =
+            serde_json::from_str(&std::fs::read_to_string(out.join("results.json")).unwrap()).unwrap();
+        decisive_figures_point_at_their_values(&results, name);
     }
 }
 

@@ -202,15 +202,26 @@ study_kinds! {
     Borefield => borefield::BorefieldKind,
 }
 
-/// Runs one study against the site's undisturbed ground.
-pub fn run(study: &Study, site: &Site, ground: &Undisturbed) -> Result<(StudyResult, Vec<Warning>), String> {
+/// Runs one study against the site's undisturbed ground; a failure names the study.
+pub fn run(
+    study: &Study,
+    site: &Site,
+    ground: &Undisturbed,
+) -> Result<(StudyResult, Vec<Warning>), crate::StudyError> {
     let cx = StudyContext {
         id: &study.id,
         method: study.method,
         site,
         ground,
     };
-    let ran = study.kind.run(&cx)?;
+    let ran = study.kind.run(&cx).map_err(|message| crate::StudyError {
+        study: study.id.clone(),
+        kind: study.kind.name(),
+        message: message
+            .strip_prefix(&format!("study {}: ", study.id))
+            .map(str::to_string)
+            .unwrap_or(message),
+    })?;
     let decisive_figures = ran.figures.decisive_figures();
     Ok((
         StudyResult {

@@ -146,8 +146,13 @@ pub struct PipeDoc {
     /// Horizontal position of the centre; 0 is the middle of the study's cross-section.
     #[serde(default)]
     pub x: Option<Q<Length>>,
-    /// Depth of the pipe's CENTRE below the ground surface.
-    pub depth: Q<Length>,
+    /// Depth of the pipe's CENTRE below the ground surface (or give `cover`).
+    #[serde(default)]
+    pub depth: Option<Q<Length>>,
+    /// Instead of `depth`: the cover, from the ground surface down to the pipe's crown (the top
+    /// of its outer surface); depth = cover + outer diameter / 2.
+    #[serde(default)]
+    pub cover: Option<Q<Length>>,
     /// Outermost diameter (over the casing or jacket).
     pub outer_diameter: Q<Length>,
     /// Wall layers from the inside out (carrier, insulation, casing); may be empty.

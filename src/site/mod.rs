@@ -9,6 +9,7 @@
 
 pub mod diagnostic;
 pub mod doc;
+pub mod keypath;
 pub mod quantity;
 pub mod schema;
 pub mod series_file;
@@ -72,6 +73,25 @@ pub fn load(path: &Path) -> Result<Loaded, Vec<Diagnostic>> {
 
 /// Validates site-file text; `label` names it in messages, `base_dir` anchors relative paths.
 pub fn load_text(text: &str, label: &str, base_dir: &Path) -> Result<Loaded, Vec<Diagnostic>> {
+    load_text_with(text, label, base_dir, &[])
+}
+
+/// A value to set at a key path of the site file as written, before it is validated.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Override {
+    pub path: keypath::Path,
+    /// A number (in the key's plain unit) or a string (a value with its unit, a preset name).
+    pub value: yaml::Value,
+}
+
+/// Validates site-file text with `overrides` set on its tree first (see [`keypath`]); a key
+/// path that does not exist in the file is an error naming it.
+pub fn load_text_with(
+    text: &str,
+    label: &str,
+    base_dir: &Path,
+    overrides: &[Override],
+) -> Result<Loaded, Vec<Diagnostic>> {
     let error_at = |loc: Loc, message: String| Diagnostic {
         severity: Severity::Error,
         file: label.to_string(),
@@ -86,6 +106,16 @@ pub fn load_text(text: &str, label: &str, base_dir: &Path) -> Result<Loaded, Vec
             Loc { line: 1, column: 1 },
             "the site file is empty; it needs `site`, `climate` and `ground` (`burrow init` prints a starter)".into(),
         )]);
+    }
+    let mut tree = tree;
+    let mut failed = Vec::new();
+    for o in overrides {
+        if let Err(message) = keypath::set(&mut tree, &o.path, &o.value) {
+            failed.push(error_at(Loc { line: 1, column: 1 }, message));
+        }
+    }
+    if !failed.is_empty() {
+        return Err(failed);
     }
     let mut out = diagnostic::Collector::new(label, &tree);
     let site_schema = schema::site_schema();

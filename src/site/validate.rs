@@ -563,12 +563,12 @@ fn pipe(doc: &PipeDoc, path: &KeyPath, v: &mut Validator) -> Option<Pipe> {
         Some(q) => v.q(q, &path.key("x")),
         None => Some(0.0),
     };
-    let depth = v.positive_q(&doc.depth, &path.key("depth"), "the depth of the pipe centre");
     let diameter = v.positive_q(
         &doc.outer_diameter,
         &path.key("outer_diameter"),
         "the outer diameter",
     );
+    let depth = centre_depth(&doc.depth, &doc.cover, diameter, path, v, "the pipe");
     // Buried pipes sit within about 0.3–6 m of the surface and measure up to about 2 m across
     // (common practice, no source).
     v.plausible(depth, (0.2, 10.0), &path.key("depth"), "a pipe depth", "m");
@@ -742,6 +742,50 @@ pub fn method(
             ),
         );
         None
+    }
+}
+
+/// The depth of a pipe's centre from `depth` (to the centre) or `cover` (to the crown, plus half
+/// the outer diameter): exactly one of the two must be given.
+pub fn centre_depth(
+    depth: &Option<Q<super::quantity::Length>>,
+    cover: &Option<Q<super::quantity::Length>>,
+    outer_diameter_m: Option<f64>,
+    path: &KeyPath,
+    v: &mut Validator,
+    what: &str,
+) -> Option<f64> {
+    match (depth, cover) {
+        (Some(_), Some(_)) => {
+            v.out.error(
+                &path.key("cover"),
+                format!("give either `depth` (to the centre of {what}) or `cover` (to its crown), not both"),
+            );
+            None
+        }
+        (None, None) => {
+            v.out.error(
+                path,
+                format!("the required key `depth` is missing: give `depth` (to the centre of {what}) or `cover` (to its crown)"),
+            );
+            None
+        }
+        (Some(d), None) => v.positive_q(
+            d,
+            &path.key("depth"),
+            &format!("the depth of the centre of {what}"),
+        ),
+        (None, Some(c)) => {
+            let cover = v.q(c, &path.key("cover"))?;
+            if cover < 0.0 {
+                v.out.error(
+                    &path.key("cover"),
+                    format!("the cover of {what} is {} m; it is measured down from the surface to the crown and must be zero or more", round_sig(cover)),
+                );
+                return None;
+            }
+            Some(cover + outer_diameter_m? / 2.0)
+        }
     }
 }
 

@@ -52,13 +52,7 @@ impl Kind for BorefieldKind {
     }
 
     fn run(cx: &StudyContext, model: &Self::Model) -> Result<Outcome<Self::Result>, String> {
-        let (result, warnings) = run::run(cx.id, model, cx.site, cx.ground)?;
-        Ok(Outcome {
-            result,
-            warnings,
-            checks: Vec::new(),
-            assumptions: Vec::new(),
-        })
+        run::run(cx.id, model, cx.site, cx.ground)
     }
 
     fn decisive_figures(r: &Self::Result) -> Vec<DecisiveFigure> {

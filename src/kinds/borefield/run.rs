@@ -41,7 +41,8 @@ use crate::physics::pipe_flow::{
 use crate::physics::superposition::{
     self, BoreholeOperation, FluidTemperatures, MONTH_S, MonthlyLoads, SampledStepResponse,
 };
-use crate::results::{Level, Warning};
+use crate::results::{Assumption, Check, Level, Warning};
+use crate::kinds::Outcome;
 use super::AnnualGroundLoads;
 use super::BorefieldFluid;
 use super::BorefieldGround;
@@ -74,12 +75,11 @@ const MAX_TAU_POINTS: usize = 52;
 /// Tolerance on the governing fluid temperature of a sized length, K.
 const SIZING_TOLERANCE_K: f64 = 0.02;
 
-pub fn run(
-    id: &str,
-    b: &Borefield,
-    site: &Site,
-    ground: &Undisturbed,
-) -> Result<(BorefieldResult, Vec<Warning>), String> {
+/// A sized design meets its limits within this tolerance (the search closes within
+/// [`SIZING_TOLERANCE_K`]; the check allows for the once-corrected g-function), K.
+pub const SIZED_LIMIT_TOLERANCE_K: f64 = 0.1;
+
+pub fn run(id: &str, b: &Borefield, site: &Site, ground: &Undisturbed) -> Result<Outcome<BorefieldResult>, String> {
     let design = Design::new(b, site, ground)?;
     let (length, sizing) = if b.size {
         let s = design.size()?;
@@ -900,7 +900,7 @@ fn result(
     curve: &GCurve,
     e: &Evaluation,
     sized: Option<Sized>,
-) -> Result<(BorefieldResult, Vec<Warning>), String> {
+) -> Result<Outcome<BorefieldResult>, String> {
     let b = d.b;
     let n = b.positions_m.len();
     let months = &e.months;
@@ -940,6 +940,7 @@ fn result(
         last_year_min_c: last.0,
         last_year_max_c: last.1,
     };
+    let sized_run = sized.is_some();
     let mut warnings = Vec::new();
     let mut warn = |level, code: &str, message: String| {
         warnings.push(Warning {
@@ -950,7 +951,46 @@ fn result(
         })
     };
     let margin = coldest - freezing;
-    if margin < ANTIFREEZE_MARGIN_K {
+    let tolerance = if sized.is_some() { SIZED_LIMIT_TOLERANCE_K } else { 0.0 };
+    let checks = vec![
+        Check::new(
+            "borefield.min_fluid",
+            figures.min_c >= b.min_fluid_c - tolerance,
+            Some(figures.min_c),
+            Some(b.min_fluid_c),
+            "°C",
+            if figures.min_c >= b.min_fluid_c - tolerance {
+                format!("the coldest mean fluid temperature, {:.2} °C, meets the lower limit of {} °C", figures.min_c, b.min_fluid_c)
+            } else {
+                format!("the coldest mean fluid temperature, {:.2} °C, is below the lower limit of {} °C", figures.min_c, b.min_fluid_c)
+            },
+        ),
+        Check::new(
+            "borefield.max_fluid",
+            figures.max_c <= b.max_fluid_c + tolerance,
+            Some(figures.max_c),
+            Some(b.max_fluid_c),
+            "°C",
+            if figures.max_c <= b.max_fluid_c + tolerance {
+                format!("the warmest mean fluid temperature, {:.2} °C, meets the upper limit of {} °C", figures.max_c, b.max_fluid_c)
+            } else {
+                format!("the warmest mean fluid temperature, {:.2} °C, is above the upper limit of {} °C", figures.max_c, b.max_fluid_c)
+            },
+        ),
+        Check::new(
+            "borefield.antifreeze_margin",
+            margin >= ANTIFREEZE_MARGIN_K,
+            Some(margin),
+            Some(ANTIFREEZE_MARGIN_K),
+            "K",
+            if margin >= ANTIFREEZE_MARGIN_K {
+                format!("the coldest fluid stays {margin:.1} K above the freezing point of the {} (at least {ANTIFREEZE_MARGIN_K} K)", fluid_name(&b.fluid))
+            } else {
+                format!("the coldest fluid comes within {margin:.1} K of the freezing point of the {} (keep at least {ANTIFREEZE_MARGIN_K} K)", fluid_name(&b.fluid))
+            },
+        ),
+    ];
+    if !checks[2].passed {
         warn(
             Level::Danger,
             "borefield.antifreeze_margin",
@@ -960,8 +1000,7 @@ fn result(
             ),
         );
     }
-    let tolerance = if sized.is_some() { 0.1 } else { 0.0 };
-    if figures.min_c < b.min_fluid_c - tolerance {
+    if !checks[0].passed {
         warn(
             Level::Caution,
             "borefield.limit_exceeded",
@@ -971,7 +1010,7 @@ fn result(
             ),
         );
     }
-    if figures.max_c > b.max_fluid_c + tolerance {
+    if !checks[1].passed {
         warn(
             Level::Caution,
             "borefield.limit_exceeded",
@@ -1078,7 +1117,47 @@ fn result(
         design_life_years: b.design_life_months as f64 / 12.0,
         months: e.months.clone(),
     };
-    Ok((result, warnings))
+    let mut assumptions = vec![
+        Assumption::new(
+            "least margin of the coldest fluid above the antifreeze's freezing point",
+            ANTIFREEZE_MARGIN_K,
+            "K",
+            "common practice, no source",
+        ),
+        Assumption::new(
+            "loss coefficient of the U-bend at the foot of a loop",
+            U_BEND_LOSS_COEFFICIENT,
+            "velocity heads",
+            "common practice, no source",
+        ),
+        Assumption::new(
+            "multipole order of the borehole resistance",
+            DEFAULT_MULTIPOLE_ORDER as f64,
+            "",
+            "Bennet, Claesson & Hellström (1987); converged to better than 0.1 % at order 10",
+        ),
+        Assumption::new("length of a model month", HOURS_PER_MONTH as f64, "h", "a 365-day year in twelve equal parts"),
+        Assumption::new(
+            "flow laminar below the Reynolds number",
+            LAMINAR_LIMIT_RE,
+            "",
+            "Gnielinski (2013), laminar–turbulent transition",
+        ),
+    ];
+    if sized_run {
+        assumptions.push(Assumption::new(
+            "tolerance of a sized design on its limits",
+            SIZED_LIMIT_TOLERANCE_K,
+            "K",
+            "burrow: the length search closes on the governing limit within 0.02 K",
+        ));
+    }
+    Ok(Outcome {
+        result,
+        warnings,
+        checks,
+        assumptions,
+    })
 }
 
 fn fluid_name(f: &Fluid) -> String {

@@ -14,9 +14,9 @@ use super::numerical::{self, DEFAULT_RESOLUTION, PipeRun, Winter};
 
 /// Volumetric heat capacity of water near 0 °C, J/(m3 K): 999.8 kg/m3 × 4219 J/(kg K) (IAPWS-95
 /// at 0.01 °C, from memory).
-const WATER_C_J_PER_M3_K: f64 = 4.218e6;
+pub const WATER_C_J_PER_M3_K: f64 = 4.218e6;
 /// Latent heat of freezing per m3 of water: 1000 kg/m3 × 333.55 kJ/kg (IAPWS).
-const WATER_LATENT_J_PER_M3: f64 = 333.55e6;
+pub const WATER_LATENT_J_PER_M3: f64 = 333.55e6;
 /// Day of the year (0-based, 365-day year) of a month and day.
 fn day_of_year((month, day): (u32, u32)) -> usize {
     (days_from_civil(2001, month, day) - days_from_civil(2001, 1, 1)) as usize

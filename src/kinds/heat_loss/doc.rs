@@ -57,8 +57,13 @@ pub struct TwinDoc {
     /// Horizontal position of the casing's centre.
     #[serde(default)]
     pub x: Option<Q<Length>>,
-    /// Depth of the casing's CENTRE below the ground surface.
-    pub depth: Q<Length>,
+    /// Depth of the casing's CENTRE below the ground surface (or give `cover`).
+    #[serde(default)]
+    pub depth: Option<Q<Length>>,
+    /// Instead of `depth`: the cover, from the ground surface down to the casing's crown;
+    /// depth = cover + outer diameter / 2.
+    #[serde(default)]
+    pub cover: Option<Q<Length>>,
     /// Outer diameter of the casing.
     pub outer_diameter: Q<Length>,
     /// The casing wall (its thickness and conductivity).

@@ -29,10 +29,10 @@ use rayon::prelude::*;
 
 /// Layers within twice the pipe depth whose conductivity differs from the one used by more than
 /// this share trigger a caution (the analytic method sees one homogeneous soil).
-const LAYER_CONTRAST: f64 = 0.2;
+pub const LAYER_CONTRAST: f64 = 0.2;
 
 /// Relative difference between the methods above which a caution is raised (issue contract).
-const CROSS_CHECK_CAUTION: f64 = 0.05;
+pub const CROSS_CHECK_CAUTION: f64 = 0.05;
 
 /// Reference temperature of λ50, °C (EN 253).
 const LAMBDA_REFERENCE_C: f64 = 50.0;

@@ -181,17 +181,13 @@ fn twin(doc: &TwinDoc, path: &KeyPath, v: &mut Validator) -> Option<(Vec<Pipe>, 
         Some(q) => v.q(q, &path.key("x")),
         None => Some(0.0),
     };
-    let depth = v.positive_q(
-        &doc.depth,
-        &path.key("depth"),
-        "the depth of the twin pipe's centre",
-    );
-    v.plausible(depth, (0.2, 10.0), &path.key("depth"), "a pipe depth", "m");
     let diameter = v.positive_q(
         &doc.outer_diameter,
         &path.key("outer_diameter"),
         "the casing diameter",
     );
+    let depth = validate::centre_depth(&doc.depth, &doc.cover, diameter, path, v, "the twin pipe's casing");
+    v.plausible(depth, (0.2, 10.0), &path.key("depth"), "a pipe depth", "m");
     v.plausible(
         diameter,
         (0.05, 2.0),
