@@ -248,60 +248,50 @@ const TWIN: &str = "  - id: twin
       return: {temperature: 45}
 ";
 
-/// Wallentén's first-order twin-pipe formulas (Wallentén 1991; the form of EN 15698-1, terms as
-/// written in physics::buried_pipe::twin, recalled `from memory`), re-implemented here:
-/// `R_sym = R_ins,sym + R_casing + R_ground`, `q_s,r = (T_m − T_g)/(2R_sym) ± (T_s − T_r)/R_a`.
-fn twin_by_hand(lambda_i: f64, casing_k: f64, soil_k: f64) -> (f64, f64) {
-    let (r_o, t_c, r_p, d): (f64, f64, f64, f64) = (0.14, 0.004, 0.04445, 0.06);
-    let r_c = r_o - t_c;
-    let beta = 2.0 * PI * lambda_i * (r_p / (r_p - 0.0032)).ln() / (2.0 * PI * 50.0);
-    let sigma = (lambda_i - soil_k) / (lambda_i + soil_k);
-    let p = r_p * r_p / (4.0 * d * d);
-    let (rc2, d2) = (r_c * r_c, d * d);
-    let (rc4, d4) = (rc2 * rc2, d2 * d2);
-    let wall = (1.0 + beta) / (1.0 - beta);
-    let sym = beta + (rc2 / (2.0 * d * r_p)).ln() + sigma * (rc4 / (rc4 - d4)).ln()
-        - p * (1.0 - sigma * 4.0 * d4 / (rc4 - d4)).powi(2)
-            / (wall + p * (1.0 + sigma * 16.0 * d4 * rc4 / (rc4 - d4).powi(2)));
-    let anti = beta + (2.0 * d / r_p).ln() + sigma * ((rc2 + d2) / (rc2 - d2)).ln()
-        - p * (1.0 + sigma * 4.0 * d2 * rc2 / (rc4 - d4)).powi(2)
-            / (wall - p * (1.0 - sigma * 8.0 * d2 * rc2 * (rc4 + d4) / (rc4 - d4).powi(2)));
-    let r_sym = sym / (4.0 * PI * lambda_i)
-        + (r_o / r_c).ln() / (2.0 * PI * casing_k)
-        + ((0.8 + soil_k * 0.0685) / r_o).acosh() / (2.0 * PI * soil_k);
-    let r_a = anti / (PI * lambda_i);
-    let s = (0.5 * (80.0 + 45.0) - T_G) / (2.0 * r_sym);
-    let a = (80.0 - 45.0) / r_a;
-    (s + a, s - a)
-}
-
+/// The study's twin (Wallentén's first-order formulas, EN 15698-1 form) against an independent
+/// method for the same pipe: the multipole expansion at order 10 (Bennet, Claesson & Hellström
+/// 1987), which tests/buried_pipe.rs holds within 0.5 % of a boundary-collocation reference
+/// (tests/reference/buried_pipe_mfs.py). The first-order formulas drop the higher multipoles of
+/// the carriers, worth about 1 % on the total and a few per cent on the return pipe's small loss
+/// (tests/buried_pipe.rs measured up to 4.2 % there): the tolerances are those, not a restatement.
 #[test]
-fn a_twin_pipe_matches_wallentens_formulas() {
+fn a_twin_pipe_agrees_with_the_multipole_method() {
+    use burrow::physics::buried_pipe::twin::{TwinMethod, TwinPipe};
+    use burrow::physics::buried_pipe::{GroundForm, Position, Soil};
     let r = run(&site_with(TWIN));
     let h = heat_loss(&r);
-    let (qs, qr) = twin_by_hand(0.026, 0.4, K);
     let ids: Vec<&str> = h.pipes.iter().map(|p| p.id.as_str()).collect();
     assert_eq!(ids, ["supply", "return"]);
-    assert!(
-        (h.pipes[0].heat_loss_w_per_m - qs).abs() < 1e-9 * qs,
-        "{} vs {qs}",
-        h.pipes[0].heat_loss_w_per_m
+    let twin = TwinPipe {
+        centre: Position::new(0.0, 0.8),
+        casing_outer_radius_m: 0.14,
+        casing_thickness_m: 0.004,
+        casing_conductivity_w_per_m_k: 0.4,
+        insulation_conductivity_w_per_m_k: 0.026,
+        carrier_outer_radius_m: 0.04445,
+        carrier_spacing_m: 0.12,
+        carrier_wall_resistance_m_k_per_w: (0.04445_f64 / 0.04125).ln() / (2.0 * PI * 50.0),
+    };
+    let soil = Soil::new(K, 0.0685).unwrap();
+    let [qs, qr] = twin
+        .resistances(&soil, GroundForm::Exact, TwinMethod::Multipole { order: 10 })
+        .unwrap()
+        .heat_rates_w_per_m(80.0, 45.0, T_G)
+        .unwrap();
+    let (ss, sr) = (h.pipes[0].heat_loss_w_per_m, h.pipes[1].heat_loss_w_per_m);
+    let total = ((ss + sr) - (qs + qr)) / (qs + qr);
+    let supply = (ss - qs) / qs;
+    let ret = (sr - qr) / qs;
+    eprintln!(
+        "study {ss:.4} {sr:.4}, multipole {qs:.4} {qr:.4}: total {total:.4}, supply {supply:.4}, return {ret:.4} (of the supply loss)"
     );
-    assert!(
-        (h.pipes[1].heat_loss_w_per_m - qr).abs() < 1e-9 * qs,
-        "{} vs {qr}",
-        h.pipes[1].heat_loss_w_per_m
-    );
+    assert!(total.abs() < 0.015, "total {total}");
+    assert!(supply.abs() < 0.03, "supply {supply}");
+    assert!(ret.abs() < 0.05, "return {ret}");
     let t = h.twin.as_ref().expect("a twin result");
-    assert!((t.total_heat_loss_w_per_m - (qs + qr)).abs() < 1e-9 * qs);
-    assert!((t.symmetric_heat_loss_w_per_m - (qs + qr)).abs() < 1e-9 * qs);
-    assert!((t.antisymmetric_heat_flow_w_per_m - 0.5 * (qs - qr)).abs() < 1e-9 * qs);
-    assert!((h.total_heat_loss_w_per_m - (qs + qr)).abs() < 1e-9 * qs);
-    // Wallentén's dimensionless coefficients: h_s = 1/(4πλ_i R_sym), and q_s + q_r = 4πλ_i·h_s·(T_m − T_g).
-    let lhs = 4.0 * PI * 0.026 * t.h_s * (62.5 - T_G);
-    assert!((lhs - (qs + qr)).abs() < 1e-9 * qs, "{lhs} vs {}", qs + qr);
+    assert!((t.total_heat_loss_w_per_m - (ss + sr)).abs() < 1e-12 * ss);
     // Constant temperatures: the annual energy is the mean rate over 8760 h.
-    assert!((t.annual_heat_loss_kwh_per_m - (qs + qr) * 8.76).abs() < 1e-6 * qs);
+    assert!((t.annual_heat_loss_kwh_per_m - (ss + sr) * 8.76).abs() < 1e-6 * ss);
 }
 
 /// The engine's section against the multipole method at order 10 (Bennet, Claesson & Hellström
@@ -448,8 +438,13 @@ fn a_twin_pipes_insulation_law_is_consistent_with_its_mean_temperature() {
     assert!((t.insulation_conductivity_w_per_m_k - expected).abs() < 1e-8);
     // Carriers at 80 and 45 °C (mean 62.5) less a little steel drop; casing near the ground.
     assert!(mean > T_G && mean < 62.5, "{mean}");
-    let (qs, qr) = twin_by_hand(expected, 0.4, K);
-    assert!(((t.total_heat_loss_w_per_m - (qs + qr)) / (qs + qr)).abs() < 1e-6);
+    // The same twin with that λ as a fixed value loses the same heat (the law's fixed point).
+    let fixed = run(&site_with(&TWIN.replace(
+        "insulation_conductivity: 0.026",
+        &format!("insulation_conductivity: {expected}"),
+    )));
+    let q = heat_loss(&fixed).total_heat_loss_w_per_m;
+    assert!(((t.total_heat_loss_w_per_m - q) / q).abs() < 1e-6);
 }
 
 /// The analytic method sees one soil; layers within twice the pipe depth that differ by more
