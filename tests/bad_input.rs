@@ -623,7 +623,7 @@ fn borefield_design_life_must_be_whole_months() {
 }
 
 /// Limits no length can meet are found by the run, not the check: exit 1, a sentence naming the
-/// range, and no bundle.
+/// study and the range, and a bundle that lists the failed study with its reason.
 #[test]
 fn borefield_sizing_that_cannot_meet_the_limits_fails_the_run_cleanly() {
     let text = borefield_site("loads: {constant: 5 kW}", "loads: {constant: 400 kW}").replace(
@@ -639,5 +639,13 @@ fn borefield_sizing_that_cannot_meet_the_limits_fails_the_run_cleanly() {
             .contains("no active length from 20 to 400 m keeps the mean fluid temperature within its limits"),
         "{stderr}"
     );
-    assert!(!dir.join("bundle").exists());
+    let json: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(dir.join("bundle/results.json")).unwrap()).unwrap();
+    assert!(
+        json["failed_studies"][0]["reason"]
+            .as_str()
+            .unwrap()
+            .starts_with("no active length from 20 to 400 m")
+    );
+    assert_eq!(json["studies"].as_array().unwrap().len(), 0);
 }
