@@ -91,7 +91,7 @@ impl Progress for Silent {}
 /// left half-written).
 pub fn run(site_path: &Path, out_dir: &Path, progress: &dyn Progress) -> Result<RunSummary, RunError> {
     let loaded = site::load(site_path).map_err(RunError::Invalid)?;
-    let bytes = std::fs::read(site_path)
+    let bytes = site::read_bounded(site_path, site::MAX_SITE_FILE_BYTES)
         .map_err(|e| RunError::Read(format!("cannot read {}: {e}", site_path.display())))?;
     let input_file = site_path
         .file_name()

@@ -66,6 +66,7 @@ fn csv_files(results: &Results) -> Vec<(String, String)> {
 
 /// Writes `report.html`, `results.json`, the CSV files and every plot (SVG and PNG) to `out_dir`.
 pub fn write_bundle(results: &Results, site: &Site, out_dir: &Path) -> Result<(), String> {
+    check_target(out_dir)?;
     let parent = match out_dir.parent() {
         Some(p) if !p.as_os_str().is_empty() => p.to_path_buf(),
         _ => Path::new(".").to_path_buf(),
@@ -96,6 +97,35 @@ pub fn write_bundle(results: &Results, site: &Site, out_dir: &Path) -> Result<()
     }
     write("report.html", html::report(results, site, &figures).as_bytes())?;
     replace_dir(tmp, out_dir)
+}
+
+/// A bundle replaces only a previous bundle (or an empty folder): an existing file, or a folder
+/// holding anything else, is refused before anything is written, so `--out` can never move a
+/// user's file or folder aside.
+fn check_target(target: &Path) -> Result<(), String> {
+    let Ok(meta) = std::fs::symlink_metadata(target) else {
+        return Ok(());
+    };
+    if !meta.is_dir() {
+        return Err(format!(
+            "{} is an existing file, not a folder: give `--out` a new folder or a previous bundle",
+            target.display()
+        ));
+    }
+    let entries: Vec<_> = std::fs::read_dir(target)
+        .map_err(|e| format!("cannot read the folder {}: {e}", target.display()))?
+        .filter_map(Result::ok)
+        .map(|e| e.file_name().to_string_lossy().into_owned())
+        .collect();
+    let bundle = entries.iter().any(|n| n == "results.json") && entries.iter().any(|n| n == "report.html");
+    if entries.is_empty() || bundle {
+        Ok(())
+    } else {
+        Err(format!(
+            "{} is a folder that holds other files, not a previous burrow bundle: give `--out` a new or empty folder",
+            target.display()
+        ))
+    }
 }
 
 /// Moves the finished temporary folder to `target`, replacing what was there.

@@ -95,8 +95,31 @@ impl fmt::Display for Diagnostic {
         write!(
             f,
             "{}:{}:{}: {word}: {}: {}",
-            self.file, self.loc.line, self.loc.column, self.path, self.message
+            printable(&self.file),
+            self.loc.line,
+            self.loc.column,
+            printable(&self.path.to_string()),
+            printable(&self.message)
         )
+    }
+}
+
+/// Text with its control characters (a NUL, an escape sequence, a line break in a key) shown as
+/// escapes, so that a message quoting the user's input prints as the one line it is.
+pub fn printable(text: &str) -> std::borrow::Cow<'_, str> {
+    if text.chars().any(char::is_control) {
+        text.chars()
+            .map(|c| {
+                if c.is_control() {
+                    c.escape_default().to_string()
+                } else {
+                    c.to_string()
+                }
+            })
+            .collect::<String>()
+            .into()
+    } else {
+        text.into()
     }
 }
 

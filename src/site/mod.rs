@@ -22,6 +22,28 @@ pub use diagnostic::{Diagnostic, KeyPath, Severity};
 use std::path::Path;
 use yaml::Loc;
 
+/// Largest site file read, bytes (a site file is a few kilobytes; long series go in CSV files).
+pub const MAX_SITE_FILE_BYTES: u64 = 1 << 20;
+/// Largest data file (a temperature series, hourly loads) read, bytes: about 30 years of hourly
+/// records.
+pub const MAX_DATA_FILE_BYTES: u64 = 64 << 20;
+
+/// Reads at most `limit` bytes of a file; a longer one (or an endless one such as `/dev/zero`)
+/// is refused with a sentence naming the limit, so reading never grows without bound.
+pub fn read_bounded(path: &Path, limit: u64) -> std::io::Result<Vec<u8>> {
+    use std::io::Read;
+    let file = std::fs::File::open(path)?;
+    let mut bytes = Vec::new();
+    file.take(limit + 1).read_to_end(&mut bytes)?;
+    if bytes.len() as u64 > limit {
+        return Err(std::io::Error::other(format!(
+            "the file is larger than {} MB, more than this kind of file ever needs",
+            limit >> 20
+        )));
+    }
+    Ok(bytes)
+}
+
 /// A site file that validated: the model, and the warnings raised on the way.
 #[derive(Clone, Debug)]
 pub struct Loaded {
@@ -41,16 +63,16 @@ pub fn load(path: &Path) -> Result<Loaded, Vec<Diagnostic>> {
             message,
         }]
     };
-    let bytes = std::fs::read(path).map_err(|e| {
+    if path.is_dir() {
+        return Err(at_file("this is a folder, not a site file".into()));
+    }
+    let bytes = read_bounded(path, MAX_SITE_FILE_BYTES).map_err(|e| {
         at_file(match e.kind() {
             std::io::ErrorKind::NotFound => "the site file does not exist; check the path".into(),
             std::io::ErrorKind::IsADirectory => "this is a folder, not a site file".into(),
             _ => format!("the site file cannot be read: {e}"),
         })
     })?;
-    if path.is_dir() {
-        return Err(at_file("this is a folder, not a site file".into()));
-    }
     let text = match String::from_utf8(bytes) {
         Ok(t) => t,
         Err(e) => {
@@ -100,6 +122,15 @@ pub fn load_text_with(
         message,
     };
     let text = text.strip_prefix('\u{feff}').unwrap_or(text);
+    // One line ending for every later step: the YAML parser counts a lone `\r` as a line break,
+    // `str::lines` does not, and the input echo and every location must agree.
+    let normalised;
+    let text = if text.contains('\r') {
+        normalised = text.replace("\r\n", "\n").replace('\r', "\n");
+        normalised.as_str()
+    } else {
+        text
+    };
     let tree = yaml::parse(text).map_err(|e| vec![error_at(e.loc, e.message)])?;
     if tree.value == yaml::Value::Null {
         return Err(vec![error_at(

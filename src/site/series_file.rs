@@ -46,7 +46,7 @@ pub struct Series {
 /// Reads and checks a temperature file. The error is one sentence that names the file and line.
 pub fn read(path: &Path, column: Option<&str>, unit: TemperatureUnit) -> Result<Series, String> {
     let name = path.display().to_string();
-    let bytes = std::fs::read(path)
+    let bytes = super::read_bounded(path, super::MAX_DATA_FILE_BYTES)
         .map_err(|e| format!("cannot read the temperature file `{name}`: {}", io_reason(&e)))?;
     let text =
         String::from_utf8(bytes).map_err(|_| format!("the temperature file `{name}` is not UTF-8 text"))?;
@@ -213,8 +213,8 @@ pub const HOURS_PER_YEAR: usize = 8760;
 /// comments and blank lines skipped). The error is one sentence that names the file and line.
 pub fn read_hourly_loads(path: &Path) -> Result<Vec<f64>, String> {
     let name = path.display().to_string();
-    let bytes =
-        std::fs::read(path).map_err(|e| format!("cannot read the load file `{name}`: {}", io_reason(&e)))?;
+    let bytes = super::read_bounded(path, super::MAX_DATA_FILE_BYTES)
+        .map_err(|e| format!("cannot read the load file `{name}`: {}", io_reason(&e)))?;
     let text = String::from_utf8(bytes).map_err(|_| format!("the load file `{name}` is not UTF-8 text"))?;
     parse_hourly_loads(&text, &name)
 }

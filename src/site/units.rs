@@ -249,6 +249,13 @@ impl std::error::Error for UnitError {}
 /// K·d for degree-days, J for energy and a fraction of 1 for fractions.
 pub fn parse_quantity(text: &str, dim: Dimension) -> Result<f64, UnitError> {
     let t = text.trim();
+    if t.chars().count() > MAX_QUANTITY_CHARS {
+        return Err(UnitError(format!(
+            "a value with its unit may be at most {MAX_QUANTITY_CHARS} characters long; for {} write a number and one of {}",
+            dim.describe(),
+            dim.examples()
+        )));
+    }
     if t.is_empty() {
         return Err(UnitError(format!(
             "the value is empty; give {} as a number, optionally followed by one of {}",
@@ -451,6 +458,14 @@ fn split_number(t: &str, dim: Dimension) -> Result<(f64, &str), UnitError> {
     Ok((number, &body[end..]))
 }
 
+/// Longest value-with-unit string read (`-12.5 MJ/(m3 K)` has 15 characters).
+pub const MAX_QUANTITY_CHARS: usize = 64;
+/// Deepest nesting of parentheses in a unit expression.
+const MAX_PARENTHESES: usize = 4;
+/// Largest exponent of a base dimension a unit expression may reach (m⁴ is the most any
+/// physical key needs).
+const MAX_EXPONENT: i32 = 12;
+
 /// A unit expression reduced to its SI factor and dimension vector.
 #[derive(Clone, Copy)]
 struct Term {
@@ -459,22 +474,33 @@ struct Term {
 }
 
 impl Term {
-    fn times(self, other: Term, sign: i32) -> Term {
+    fn times(self, other: Term, sign: i32) -> Result<Term, String> {
         let mut dim = self.dim;
         for (d, o) in dim.iter_mut().zip(other.dim) {
             *d += sign * o;
         }
-        Term {
+        bounded(Term {
             factor: self.factor * other.factor.powi(sign),
             dim,
-        }
+        })
     }
 
-    fn pow(self, n: i32) -> Term {
-        Term {
+    fn pow(self, n: i32) -> Result<Term, String> {
+        bounded(Term {
             factor: self.factor.powi(n),
-            dim: self.dim.map(|d| d * n),
-        }
+            dim: self.dim.map(|d| d.saturating_mul(n)),
+        })
+    }
+}
+
+/// A term whose exponents stay within ±[`MAX_EXPONENT`] (no unit of a site file comes near).
+fn bounded(t: Term) -> Result<Term, String> {
+    if t.dim.iter().all(|d| d.abs() <= MAX_EXPONENT) && t.factor.is_finite() && t.factor > 0.0 {
+        Ok(t)
+    } else {
+        Err(format!(
+            "the exponents reach beyond ±{MAX_EXPONENT}, which no physical unit here needs"
+        ))
     }
 }
 
@@ -498,7 +524,11 @@ fn parse_unit(unit: &str, t: &str, dim: Dimension) -> Result<Term, UnitError> {
         ))
     };
     let toks = tokenize(unit).map_err(fail)?;
-    let mut p = Parser { toks: &toks, pos: 0 };
+    let mut p = Parser {
+        toks: &toks,
+        pos: 0,
+        depth: 0,
+    };
     let term = p.expr().map_err(fail)?;
     if p.pos < toks.len() {
         return Err(fail(format!("unexpected `{}`", show(&toks[p.pos]))));
@@ -571,6 +601,8 @@ fn tokenize(unit: &str) -> Result<Vec<Tok>, String> {
 struct Parser<'a> {
     toks: &'a [Tok],
     pos: usize,
+    /// Parentheses open at the current position.
+    depth: usize,
 }
 
 impl Parser<'_> {
@@ -582,7 +614,7 @@ impl Parser<'_> {
         let mut acc = self.product()?;
         while self.peek() == Some(&Tok::Div) {
             self.pos += 1;
-            acc = acc.times(self.factor()?, -1);
+            acc = acc.times(self.factor()?, -1)?;
             if matches!(self.peek(), Some(Tok::Mul | Tok::Name(_) | Tok::Open)) {
                 return Err("`/` is followed by a product without parentheses, which is ambiguous".into());
             }
@@ -598,7 +630,7 @@ impl Parser<'_> {
                 Some(Tok::Name(_) | Tok::Open) => {}
                 _ => return Ok(acc),
             }
-            acc = acc.times(self.factor()?, 1);
+            acc = acc.times(self.factor()?, 1)?;
         }
     }
 
@@ -616,8 +648,13 @@ impl Parser<'_> {
                 }
             }
             Some(Tok::Open) => {
+                if self.depth >= MAX_PARENTHESES {
+                    return Err(format!("parentheses are nested more than {MAX_PARENTHESES} deep"));
+                }
                 self.pos += 1;
+                self.depth += 1;
                 let inner = self.expr()?;
+                self.depth -= 1;
                 if self.peek() != Some(&Tok::Close) {
                     return Err("missing `)`".into());
                 }
@@ -630,7 +667,7 @@ impl Parser<'_> {
         match self.peek() {
             Some(&Tok::Exp(n)) => {
                 self.pos += 1;
-                Ok(base.pow(n))
+                base.pow(n)
             }
             _ => Ok(base),
         }

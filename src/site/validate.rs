@@ -449,6 +449,9 @@ fn property<D: Dim>(
     v.positive(Some(value), &p, what)
 }
 
+/// Longest study id: it names files in the bundle.
+pub const MAX_ID_CHARS: usize = 64;
+
 fn studies(docs: &[StudyDoc], path: &KeyPath, v: &mut Validator) -> Option<Vec<Study>> {
     let mut seen: HashMap<&str, usize> = HashMap::new();
     let mut ok = true;
@@ -464,10 +467,12 @@ fn studies(docs: &[StudyDoc], path: &KeyPath, v: &mut Validator) -> Option<Vec<S
             .id()
             .chars()
             .all(|c| c.is_ascii_alphanumeric() || matches!(c, '-' | '_' | '.'))
+            || s.id().starts_with('.')
+            || s.id().len() > MAX_ID_CHARS
         {
             v.out.error(
                 &p.key("id"),
-                format!("the study id `{}` names files in the bundle, so it may hold only letters, digits, `-`, `_` and `.`", s.id()),
+                format!("the study id `{}` names files in the bundle, so it may hold only letters, digits, `-`, `_` and `.` (not first), at most {MAX_ID_CHARS} of them", s.id()),
             );
             ok = false;
         } else if let Some(first) = seen.insert(s.id(), i) {

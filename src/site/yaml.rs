@@ -12,6 +12,11 @@ use std::sync::Arc;
 
 /// Most nodes a document may expand to, aliases included.
 pub const MAX_NODES: usize = 200_000;
+/// Most bytes of scalar text a document may expand to, aliases included (a site file is a few
+/// kilobytes; the budget bounds memory whatever the aliases do).
+pub const MAX_TEXT_BYTES: usize = 8 << 20;
+/// Longest single scalar, in bytes (a site name, a description, a path).
+pub const MAX_SCALAR_BYTES: usize = 10_000;
 /// Deepest nesting of mappings and sequences.
 pub const MAX_DEPTH: usize = 64;
 
@@ -83,14 +88,19 @@ enum Frame {
         loc: Loc,
         entries: Vec<(Key, Node)>,
         pending_key: Option<Key>,
+        /// Where each key of `entries` stands, for the duplicate check in constant time.
+        seen: HashMap<String, Loc>,
     },
 }
 
 #[derive(Default)]
 struct Builder {
     stack: Vec<Frame>,
-    anchors: HashMap<usize, (Arc<Node>, usize)>,
+    /// Each anchor's node with its size in nodes and in scalar bytes.
+    anchors: HashMap<usize, (Arc<Node>, usize, usize)>,
     nodes: usize,
+    text_bytes: usize,
+    aliases_used: bool,
     root: Option<Node>,
     documents: usize,
 }
@@ -113,17 +123,28 @@ impl Builder {
                         loc,
                         message: "YAML tags (`!name`) are not used in site files; remove the tag".into(),
                     });
+                } else if text.len() > MAX_SCALAR_BYTES {
+                    return Err(YamlError {
+                        loc,
+                        message: format!(
+                            "this value is {} bytes long; a site file's values are at most {MAX_SCALAR_BYTES} bytes",
+                            text.len()
+                        ),
+                    });
                 } else {
                     resolve_scalar(&text, style)
                 };
+                self.spend_text(text.len(), loc)?;
                 self.push(Node { value, loc }, anchor, loc)?;
             }
             Event::Alias(id) => {
-                let (node, size) = self.anchors.get(&id).cloned().ok_or(YamlError {
+                let (node, size, bytes) = self.anchors.get(&id).cloned().ok_or(YamlError {
                     loc,
                     message: "this alias refers to an anchor that is not defined before it".into(),
                 })?;
+                self.aliases_used = true;
                 self.count(size, loc)?;
+                self.spend_text(bytes, loc)?;
                 let mut node = (*node).clone();
                 node.loc = loc;
                 self.attach(node, loc)?;
@@ -150,6 +171,7 @@ impl Builder {
                     loc,
                     entries: Vec::new(),
                     pending_key: None,
+                    seen: HashMap::new(),
                 });
             }
             Event::SequenceEnd | Event::MappingEnd => {
@@ -195,8 +217,33 @@ impl Builder {
         if self.nodes > MAX_NODES {
             return Err(YamlError {
                 loc,
+                message: if self.aliases_used {
+                    format!(
+                        "the document expands to more than {MAX_NODES} values through its aliases; a site file needs far fewer, so this looks like an alias bomb"
+                    )
+                } else {
+                    format!(
+                        "the document holds more than {MAX_NODES} values; a site file needs far fewer (long series belong in a CSV file named by the site file)"
+                    )
+                },
+            });
+        }
+        Ok(())
+    }
+
+    fn spend_text(&mut self, bytes: usize, loc: Loc) -> Result<(), YamlError> {
+        self.text_bytes = self.text_bytes.saturating_add(bytes);
+        if self.text_bytes > MAX_TEXT_BYTES {
+            return Err(YamlError {
+                loc,
                 message: format!(
-                    "the document expands to more than {MAX_NODES} values (through aliases); a site file needs far fewer, so this looks like an alias bomb"
+                    "the document expands to more than {} MB of text{}; a site file needs far less",
+                    MAX_TEXT_BYTES >> 20,
+                    if self.aliases_used {
+                        " through its aliases"
+                    } else {
+                        ""
+                    }
                 ),
             });
         }
@@ -211,8 +258,8 @@ impl Builder {
 
     fn remember(&mut self, anchor: usize, node: &Node) {
         if anchor != 0 {
-            let size = node_count(node);
-            self.anchors.insert(anchor, (Arc::new(node.clone()), size));
+            let (size, bytes) = node_size(node);
+            self.anchors.insert(anchor, (Arc::new(node.clone()), size, bytes));
         }
     }
 
@@ -221,7 +268,10 @@ impl Builder {
             None => self.root = Some(node),
             Some(Frame::Seq { items, .. }) => items.push(node),
             Some(Frame::Map {
-                entries, pending_key, ..
+                entries,
+                pending_key,
+                seen,
+                ..
             }) => match pending_key.take() {
                 None => {
                     let name = match node.value {
@@ -242,15 +292,16 @@ impl Builder {
                             message: "merge keys (`<<`) are not supported in site files; repeat the keys or use an alias for the whole value".into(),
                         });
                     }
-                    if let Some((first, _)) = entries.iter().find(|(k, _)| k.name == name) {
+                    if let Some(first) = seen.get(&name) {
                         return Err(YamlError {
                             loc,
                             message: format!(
                                 "the key `{name}` appears twice in this mapping (first at line {}); keep one",
-                                first.loc.line
+                                first.line
                             ),
                         });
                     }
+                    seen.insert(name.clone(), node.loc);
                     *pending_key = Some(Key { name, loc: node.loc });
                 }
                 Some(key) => entries.push((key, node)),
@@ -267,11 +318,17 @@ impl Builder {
     }
 }
 
-fn node_count(node: &Node) -> usize {
+/// Nodes and scalar bytes of a (sub)tree, keys included.
+fn node_size(node: &Node) -> (usize, usize) {
+    let add = |(n, b): (usize, usize), (m, c): (usize, usize)| (n.saturating_add(m), b.saturating_add(c));
     match &node.value {
-        Value::Seq(items) => 1 + items.iter().map(node_count).sum::<usize>(),
-        Value::Map(entries) => 1 + entries.iter().map(|(_, v)| node_count(v)).sum::<usize>(),
-        _ => 1,
+        Value::Seq(items) => items.iter().map(node_size).fold((1, 0), add),
+        Value::Map(entries) => entries
+            .iter()
+            .map(|(k, v)| add((1, k.name.len()), node_size(v)))
+            .fold((1, 0), add),
+        Value::String(s) => (1, s.len()),
+        _ => (1, 8),
     }
 }
 

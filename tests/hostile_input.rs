@@ -1,0 +1,163 @@
+//! Inputs that once crashed burrow or exhausted the machine (found by hand and by fuzzing) are
+//! located errors or bounded, documented limits, and never a panic, an abort or a silent move.
+
+use burrow::site::{Severity, load_text};
+use std::path::{Path, PathBuf};
+use std::process::Command;
+
+const SITE: &str = "site: {name: Quillan Row}
+climate: {model: annual-wave, mean: 8 °C, amplitude: 9 K, coldest_day: 30}
+ground:
+  layers: [{name: silt, conductivity: 1.4 W/(m K), heat_capacity: 2.0 MJ/(m3 K)}]
+studies:
+  - id: main
+    kind: frost
+";
+
+fn errors(text: &str) -> Vec<String> {
+    match load_text(text, "t.yaml", Path::new(".")) {
+        Ok(_) => Vec::new(),
+        Err(d) => d
+            .iter()
+            .filter(|d| d.severity == Severity::Error)
+            .map(|d| d.to_string())
+            .collect(),
+    }
+}
+
+fn scratch(name: &str) -> PathBuf {
+    let dir = std::env::temp_dir().join(format!("burrow-hostile-{}-{name}", std::process::id()));
+    let _ = std::fs::remove_dir_all(&dir);
+    std::fs::create_dir_all(&dir).unwrap();
+    dir
+}
+
+fn burrow(args: &[&str], dir: &Path) -> (Option<i32>, String) {
+    let o = Command::new(env!("CARGO_BIN_EXE_burrow"))
+        .args(args)
+        .current_dir(dir)
+        .output()
+        .unwrap();
+    (
+        o.status.code(),
+        String::from_utf8_lossy(&o.stdout).into_owned() + &String::from_utf8_lossy(&o.stderr),
+    )
+}
+
+#[test]
+fn carriage_returns_alone_end_lines_like_newlines() {
+    let cr = SITE.replace('\n', "\r");
+    let loaded = load_text(&cr, "t.yaml", Path::new(".")).unwrap();
+    let echo = loaded.site.studies[0].echo.as_ref().unwrap();
+    assert_eq!((echo.first_line, echo.last_line), (6, 7));
+    assert!(echo.text.starts_with("- id: main") && echo.text.ends_with("kind: frost"), "{}", echo.text);
+    // An error in such a file is located on the right line.
+    let bad = SITE
+        .replace("amplitude: 9 K", "amplitude: 9 parsecs")
+        .replace('\n', "\r");
+    let e = errors(&bad);
+    assert!(e[0].starts_with("t.yaml:2:"), "{e:?}");
+}
+
+#[test]
+fn unit_strings_that_nest_or_grow_are_refused_with_a_sentence() {
+    let nested = format!("{}m{} K", "(".repeat(4_000), ")".repeat(4_000));
+    let e = errors(&SITE.replace("amplitude: 9 K", &format!("amplitude: \"9 {nested}\"")));
+    assert!(e.iter().any(|m| m.contains("at most 64 characters")), "{e:?}");
+    let deep = SITE.replace("conductivity: 1.4 W/(m K)", "conductivity: 1.4 W/((((((m K))))))");
+    let e = errors(&deep);
+    assert!(e.iter().any(|m| m.contains("nested more than 4 deep")), "{e:?}");
+    // Exponents that multiply past any physical unit (they once wrapped to m882311577).
+    let wrap = SITE.replace("amplitude: 9 K", "amplitude: 9 ((((K99)99)99)99)");
+    let e = errors(&wrap);
+    assert!(e.iter().any(|m| m.contains("beyond ±12")), "{e:?}");
+    let digits = SITE.replace("amplitude: 9 K", "amplitude: 9 K1234567890");
+    assert!(!errors(&digits).is_empty());
+}
+
+#[test]
+fn an_alias_bomb_of_long_strings_is_stopped_by_the_text_budget() {
+    // 160,000 copies of a 9,000-byte string would be 1.4 GB; the node budget alone lets them by.
+    let long = "x".repeat(9_000);
+    let row = format!("[{}]", vec!["*s"; 400].join(", "));
+    let table = format!("[{}]", vec!["*r"; 400].join(", "));
+    let text = format!("{SITE}x-s: &s {long}\nx-r: &r {row}\nx-t: {table}\n");
+    let e = errors(&text);
+    assert!(
+        e.iter().any(|m| m.contains("MB of text through its aliases")),
+        "{e:?}"
+    );
+}
+
+#[test]
+fn a_value_longer_than_any_site_file_needs_is_refused() {
+    let e = errors(&SITE.replace("Quillan Row", &"Q".repeat(20_000)));
+    assert!(e.iter().any(|m| m.contains("at most 10000 bytes")), "{e:?}");
+}
+
+#[test]
+fn a_long_list_is_not_blamed_on_aliases() {
+    let many = vec!["1"; 250_000].join(", ");
+    let e = errors(&format!("{SITE}x-values: [{many}]\n"));
+    assert!(
+        e.iter()
+            .any(|m| m.contains("holds more than 200000 values") && !m.contains("alias")),
+        "{e:?}"
+    );
+}
+
+#[test]
+fn many_keys_are_all_reported_as_unknown() {
+    let keys: String = (0..20_000).map(|i| format!("k{i}: 1\n")).collect();
+    let e = errors(&format!("{SITE}{keys}"));
+    assert_eq!(e.iter().filter(|m| m.contains("unknown key")).count(), 20_000);
+}
+
+#[test]
+fn an_endless_file_is_refused_at_its_size_limit() {
+    let dir = scratch("endless");
+    let (code, out) = burrow(&["check", "/dev/zero"], &dir);
+    assert_eq!(code, Some(1), "{out}");
+    assert!(out.contains("larger than 1 MB"), "{out}");
+    let series = SITE.replace(
+        "{model: annual-wave, mean: 8 °C, amplitude: 9 K, coldest_day: 30}",
+        "{model: series, file: /dev/zero}",
+    );
+    std::fs::write(dir.join("site.yaml"), series).unwrap();
+    let (code, out) = burrow(&["check", "site.yaml"], &dir);
+    assert_eq!(code, Some(1), "{out}");
+    assert!(out.contains("larger than 64 MB"), "{out}");
+}
+
+#[test]
+fn study_ids_that_would_escape_the_bundle_or_hide_characters_are_refused() {
+    let e = errors(&SITE.replace("id: main", "id: .."));
+    assert!(e.iter().any(|m| m.contains("(not first)")), "{e:?}");
+    let e = errors(&SITE.replace("id: main", "id: \"ma\\0in\""));
+    assert!(
+        e.iter().any(|m| m.contains("ma\\u{0}in") && !m.contains('\0')),
+        "{e:?}"
+    );
+}
+
+#[test]
+fn out_never_moves_a_file_or_a_foreign_folder_aside() {
+    let dir = scratch("out");
+    std::fs::write(dir.join("site.yaml"), SITE).unwrap();
+    std::fs::write(dir.join("notes.txt"), "keep me").unwrap();
+    let (code, out) = burrow(&["run", "site.yaml", "--quiet", "--out", "notes.txt"], &dir);
+    assert_eq!(code, Some(1), "{out}");
+    assert!(out.contains("is an existing file"), "{out}");
+    assert_eq!(std::fs::read_to_string(dir.join("notes.txt")).unwrap(), "keep me");
+    std::fs::create_dir_all(dir.join("work")).unwrap();
+    std::fs::write(dir.join("work/thesis.tex"), "keep me too").unwrap();
+    let (code, out) = burrow(&["run", "site.yaml", "--quiet", "--out", "work"], &dir);
+    assert_eq!(code, Some(1), "{out}");
+    assert!(out.contains("not a previous burrow bundle"), "{out}");
+    assert!(dir.join("work/thesis.tex").is_file());
+    // A previous bundle is replaced as before.
+    let (code, out) = burrow(&["run", "site.yaml", "--quiet", "--out", "bundle"], &dir);
+    assert_eq!(code, Some(0), "{out}");
+    let (code, out) = burrow(&["run", "site.yaml", "--quiet", "--out", "bundle"], &dir);
+    assert_eq!(code, Some(0), "{out}");
+}
