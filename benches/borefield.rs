@@ -36,10 +36,9 @@ fn site_text(n: usize, loads: &str, size: bool) -> String {
         _ => format!(
             "
       monthly:
-        extracted: [{}]
-        injected: [{}]
-        peak_extraction: [{}]
-        peak_injection: [{}]",
+        from_ground: [{}]
+        to_ground: [{}]
+        peak: {{from_ground: [{}], to_ground: [{}]}}",
             monthly(
                 [
                     180.0, 160.0, 120.0, 80.0, 30.0, 10.0, 5.0, 5.0, 25.0, 70.0, 120.0, 170.0
@@ -87,7 +86,7 @@ studies:
     limits: {{min_fluid: -2 °C, max_fluid: 30 °C}}
     design_life: 25 years
 {}",
-        if size { "    size: active_length\n" } else { "" }
+        if size { "    find: length\n" } else { "" }
     )
 }
 

@@ -626,10 +626,8 @@ fn borefield_design_life_must_be_whole_months() {
 /// study and the range, and a bundle that lists the failed study with its reason.
 #[test]
 fn borefield_sizing_that_cannot_meet_the_limits_fails_the_run_cleanly() {
-    let text = borefield_site("loads: {constant: 5 kW}", "loads: {constant: 400 kW}").replace(
-        "design_life: 20 years",
-        "design_life: 20 years\n    size: active_length",
-    );
+    let text = borefield_site("loads: {constant: 5 kW}", "loads: {constant: 400 kW}")
+        .replace("design_life: 20 years", "design_life: 20 years\n    find: length");
     let dir = scratch("bf-unmeetable");
     std::fs::write(dir.join("site.yaml"), &text).unwrap();
     let (code, _, stderr) = burrow(&["run", "site.yaml", "--out", "bundle"], &dir);
@@ -648,4 +646,42 @@ fn borefield_sizing_that_cannot_meet_the_limits_fails_the_run_cleanly() {
             .starts_with("no active length from 20 to 400 m")
     );
     assert_eq!(json["studies"].as_array().unwrap().len(), 0);
+}
+
+/// The borefield's former load and sizing keys are refused with a message naming burrow's keys
+/// (`from_ground`, `to_ground`, `peak`, `find: length`).
+#[test]
+fn former_borefield_keys_name_their_replacements() {
+    let text = borefield_site(
+        "loads: {constant: 5 kW}",
+        "loads:\n      monthly:\n        extracted: [1, 1, 1, 1, 1, 1, 1, 1, 1, 1, 1, 1]\n        to_ground: [0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0]\n        peak_hours: 6 h",
+    );
+    refused(
+        "bf-old-monthly",
+        text.as_bytes(),
+        30,
+        9,
+        "studies[0].loads.monthly.extracted",
+        "write `from_ground` instead",
+    );
+    refused(
+        "bf-old-peak",
+        text.as_bytes(),
+        32,
+        9,
+        "studies[0].loads.monthly.peak_hours",
+        "write `peak: {duration}` instead",
+    );
+    let text = borefield_site(
+        "design_life: 20 years",
+        "design_life: 20 years\n    size: active_length",
+    );
+    refused(
+        "bf-old-size",
+        text.as_bytes(),
+        31,
+        5,
+        "studies[0].size",
+        "write `find: length` instead",
+    );
 }

@@ -206,10 +206,9 @@ fn peak_pulse_lowers_the_fluid_by_the_short_step_response() {
     let length = 100.0;
     let loads = "
       monthly:
-        extracted: [2190 kWh, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0]
-        injected: [0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0]
-        peak_extraction: [8 kW, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0]
-        peak_hours: 4 h";
+        from_ground: [2190 kWh, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0]
+        to_ground: [0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0]
+        peak: {from_ground: [8 kW, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0], duration: 4 h}";
     let text = site_text(&format!(
         "{}    design_life: 1 year\n    wall_condition: uniform-heat-flux\n",
         study(ONE, length, loads, MEASURED)
@@ -246,9 +245,9 @@ fn sizing_study(scale: f64) -> String {
     let loads = format!(
         "
       monthly:
-        extracted: [{}]
-        injected: [{}]
-        peak_extraction: [{}]",
+        from_ground: [{}]
+        to_ground: [{}]
+        peak: {{from_ground: [{}]}}",
         list(&e),
         list(&i),
         pe.iter()
@@ -257,7 +256,7 @@ fn sizing_study(scale: f64) -> String {
             .join(", ")
     );
     site_text(&format!(
-        "{}    design_life: 20 years\n    size: active_length\n",
+        "{}    design_life: 20 years\n    find: length\n",
         study(
             "{rectangle: {rows: 4, columns: 5, spacing: 6 m}}",
             150.0,

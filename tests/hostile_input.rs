@@ -50,7 +50,11 @@ fn carriage_returns_alone_end_lines_like_newlines() {
     let loaded = load_text(&cr, "t.yaml", Path::new(".")).unwrap();
     let echo = loaded.site.studies[0].echo.as_ref().unwrap();
     assert_eq!((echo.first_line, echo.last_line), (6, 7));
-    assert!(echo.text.starts_with("- id: main") && echo.text.ends_with("kind: frost"), "{}", echo.text);
+    assert!(
+        echo.text.starts_with("- id: main") && echo.text.ends_with("kind: frost"),
+        "{}",
+        echo.text
+    );
     // An error in such a file is located on the right line.
     let bad = SITE
         .replace("amplitude: 9 K", "amplitude: 9 parsecs")

@@ -175,7 +175,7 @@ studies:
     loads: {constant: 400 kW}
     limits: {min_fluid: -3 °C, max_fluid: 30 °C}
     design_life: 10 years
-    size: active_length
+    find: length
 ";
     let dir = std::env::temp_dir().join(format!("burrow-isolation-{}", std::process::id()));
     std::fs::create_dir_all(&dir).unwrap();

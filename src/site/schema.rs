@@ -154,6 +154,21 @@ impl<'s> Checker<'s> {
             match props.get(&key.name) {
                 Some(s) => self.check(value, s, &child, out),
                 None if closed => {
+                    if let Some(new) = schema
+                        .get("x-renamed")
+                        .and_then(|r| r.get(&key.name))
+                        .and_then(Json::as_str)
+                    {
+                        out.error_at(
+                            key.loc,
+                            &child,
+                            format!(
+                                "`{}` is not a key of burrow's site file: write `{new}` instead",
+                                key.name
+                            ),
+                        );
+                        continue;
+                    }
                     let allowed: Vec<&str> = props.keys().map(String::as_str).collect();
                     let hint = closest(&key.name, &allowed)
                         .map(|c| format!(" (did you mean `{c}`?)"))
@@ -433,9 +448,11 @@ fn list_values(options: &[Json]) -> String {
         .join(", ")
 }
 
-fn first_sentence(text: &str) -> &str {
+/// The first sentence of a description, on one line (doc comments wrap).
+fn first_sentence(text: &str) -> String {
+    let text = text.split_whitespace().collect::<Vec<_>>().join(" ");
     let end = text.find(". ").map(|i| i + 1).unwrap_or(text.len());
-    text[..end].trim_end_matches('.')
+    text[..end].trim_end_matches('.').to_string()
 }
 
 /// The allowed name nearest to a misspelt one, when it is close enough to be a likely typo.

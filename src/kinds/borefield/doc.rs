@@ -14,6 +14,7 @@ use serde::Deserialize;
 /// A field of vertical ground heat exchangers (boreholes) serving a heat pump.
 #[derive(Debug, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
+#[schemars(extend("x-renamed" = {"size": "find: length"}))]
 pub struct BorefieldDoc {
     /// A unique name for the study, used in the report and in file names (letters, digits, `-`,
     /// `_`, `.`).
@@ -40,10 +41,10 @@ pub struct BorefieldDoc {
     /// `uniform-heat-flux`.
     #[serde(default)]
     pub wall_condition: Option<WallConditionDoc>,
-    /// `active_length`: find the active length that keeps the fluid inside the limits (the
+    /// `length`: find the shortest active length that keeps the fluid inside the limits (the
     /// layout stays as given).
     #[serde(default)]
-    pub size: Option<SizeDoc>,
+    pub find: Option<FindDoc>,
     /// Segments per borehole for the uniform-wall-temperature g-function (default 12).
     #[serde(default)]
     pub segments: Option<usize>,
@@ -174,15 +175,14 @@ pub struct LoadsDoc {
     #[serde(default)]
     pub monthly: Option<MonthlyLoadsDoc>,
     /// Building-side monthly energies and peaks, turned into ground loads with the heat pump's
-    /// COP and EER: extracted = heating·(1 − 1/COP), injected = cooling·(1 + 1/EER).
+    /// COP and EER: from the ground = heating·(1 − 1/COP), to the ground = cooling·(1 + 1/EER).
     #[serde(default)]
     pub building: Option<BuildingLoadsDoc>,
     /// A CSV file of 8760 hourly ground loads in W (first column; an optional header row;
-    /// positive = extracted from the ground), repeated every year. Path relative to the site
-    /// file.
+    /// positive = from the ground), repeated every year. Path relative to the site file.
     #[serde(default)]
     pub hourly: Option<String>,
-    /// One load for the whole design life (positive = extracted from the ground).
+    /// One load for the whole design life (positive = from the ground).
     #[serde(default)]
     pub constant: Option<Q<Power>>,
 }
@@ -190,29 +190,53 @@ pub struct LoadsDoc {
 /// Monthly ground loads, January first.
 #[derive(Debug, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
+#[schemars(extend("x-renamed" = {
+    "extracted": "from_ground",
+    "injected": "to_ground",
+    "peak_extraction": "peak: {from_ground}",
+    "peak_injection": "peak: {to_ground}",
+    "peak_hours": "peak: {duration}"
+}))]
 pub struct MonthlyLoadsDoc {
-    /// Heat taken from the ground each month (12 values; plain numbers in kWh).
+    /// Heat the field gives the heat pump each month, taken from the ground (12 values; plain
+    /// numbers in kWh).
     #[schemars(length(min = 12, max = 12))]
-    pub extracted: Vec<Q<Energy>>,
-    /// Heat rejected to the ground each month (12 values; plain numbers in kWh).
+    pub from_ground: Vec<Q<Energy>>,
+    /// Heat the field takes back each month, given to the ground (12 values; plain numbers in
+    /// kWh).
     #[schemars(length(min = 12, max = 12))]
-    pub injected: Vec<Q<Energy>>,
-    /// Peak extraction of each month (12 values); default: no peak above the monthly mean.
+    pub to_ground: Vec<Q<Energy>>,
+    /// The highest load of each month in each direction and how long it lasts (optional;
+    /// default: no peak above the monthly mean).
+    #[serde(default)]
+    pub peak: Option<MonthlyPeakDoc>,
+}
+
+/// The peaks of the monthly ground loads.
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct MonthlyPeakDoc {
+    /// Peak heat flow from the ground in each month (12 values; plain numbers in W).
     #[serde(default)]
     #[schemars(length(min = 12, max = 12))]
-    pub peak_extraction: Option<Vec<Q<Power>>>,
-    /// Peak injection of each month (12 values); default: no peak above the monthly mean.
+    pub from_ground: Option<Vec<Q<Power>>>,
+    /// Peak heat flow to the ground in each month (12 values; plain numbers in W).
     #[serde(default)]
     #[schemars(length(min = 12, max = 12))]
-    pub peak_injection: Option<Vec<Q<Power>>>,
+    pub to_ground: Option<Vec<Q<Power>>>,
     /// How long each peak lasts (default 6 h).
     #[serde(default)]
-    pub peak_hours: Option<Q<Time>>,
+    pub duration: Option<Q<Time>>,
 }
 
 /// Monthly building loads, January first.
 #[derive(Debug, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
+#[schemars(extend("x-renamed" = {
+    "peak_heating": "peak: {heating}",
+    "peak_cooling": "peak: {cooling}",
+    "peak_hours": "peak: {duration}"
+}))]
 pub struct BuildingLoadsDoc {
     /// Heat delivered to the building each month (12 values; plain numbers in kWh).
     #[schemars(length(min = 12, max = 12))]
@@ -220,22 +244,32 @@ pub struct BuildingLoadsDoc {
     /// Heat removed from the building each month (12 values; plain numbers in kWh).
     #[schemars(length(min = 12, max = 12))]
     pub cooling: Vec<Q<Energy>>,
-    /// Peak heating of each month (12 values); default: no peak above the mean.
+    /// The highest building load of each month and how long it lasts (optional; default: no
+    /// peak above the monthly mean).
     #[serde(default)]
-    #[schemars(length(min = 12, max = 12))]
-    pub peak_heating: Option<Vec<Q<Power>>>,
-    /// Peak cooling of each month (12 values); default: no peak above the mean.
-    #[serde(default)]
-    #[schemars(length(min = 12, max = 12))]
-    pub peak_cooling: Option<Vec<Q<Power>>>,
+    pub peak: Option<BuildingPeakDoc>,
     /// Seasonal coefficient of performance of the heat pump in heating.
     pub cop: f64,
     /// Seasonal energy-efficiency ratio in cooling (give any positive value when there is no
     /// cooling).
     pub eer: f64,
+}
+
+/// The peaks of the monthly building loads.
+#[derive(Debug, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct BuildingPeakDoc {
+    /// Peak heating of each month (12 values; plain numbers in W).
+    #[serde(default)]
+    #[schemars(length(min = 12, max = 12))]
+    pub heating: Option<Vec<Q<Power>>>,
+    /// Peak cooling of each month (12 values; plain numbers in W).
+    #[serde(default)]
+    #[schemars(length(min = 12, max = 12))]
+    pub cooling: Option<Vec<Q<Power>>>,
     /// How long each peak lasts (default 6 h).
     #[serde(default)]
-    pub peak_hours: Option<Q<Time>>,
+    pub duration: Option<Q<Time>>,
 }
 
 #[derive(Debug, Deserialize, JsonSchema)]
@@ -254,9 +288,10 @@ pub enum WallConditionDoc {
     UniformHeatFlux,
 }
 
+/// What a borefield study finds.
 #[derive(Clone, Copy, Debug, Deserialize, JsonSchema)]
-pub enum SizeDoc {
-    /// Find the active length H.
-    #[serde(rename = "active_length")]
-    ActiveLength,
+#[serde(rename_all = "kebab-case")]
+pub enum FindDoc {
+    /// The shortest active length H of every borehole that keeps the fluid inside its limits.
+    Length,
 }

@@ -185,7 +185,7 @@ pub fn validate(doc: &BorefieldDoc, path: &KeyPath, v: &mut Validator) -> Option
             None | Some(WallConditionDoc::UniformTemperature) => BoreholeWall::UniformTemperature,
             Some(WallConditionDoc::UniformHeatFlux) => BoreholeWall::UniformHeatFlux,
         },
-        size: doc.size.is_some(),
+        size: doc.find.is_some(),
         segments: segments?,
         pump_efficiency: pump?,
         ground_conductivity_w_per_m_k: ground_k?,
@@ -525,7 +525,7 @@ fn twelve<D: Dim>(values: &[Q<D>], path: &KeyPath, v: &mut Validator, what: &str
 }
 
 fn optional_twelve<D: Dim>(
-    values: &Option<Vec<Q<D>>>,
+    values: &Option<&[Q<D>]>,
     path: &KeyPath,
     v: &mut Validator,
     what: &str,
@@ -536,7 +536,7 @@ fn optional_twelve<D: Dim>(
     }
 }
 
-fn peak_duration(q: &Option<Q<Time>>, path: &KeyPath, v: &mut Validator) -> Option<f64> {
+fn peak_duration(q: &Option<&Q<Time>>, path: &KeyPath, v: &mut Validator) -> Option<f64> {
     match q {
         None => Some(DEFAULT_PEAK_DURATION_S),
         Some(q) => {
@@ -565,16 +565,23 @@ fn loads(doc: &LoadsDoc, path: &KeyPath, v: &mut Validator) -> Option<GroundLoad
     }
     if let Some(m) = &doc.monthly {
         let p = path.key("monthly");
-        let extracted = twelve(&m.extracted, &p.key("extracted"), v, "extracted heat");
-        let injected = twelve(&m.injected, &p.key("injected"), v, "injected heat");
+        let extracted = twelve(&m.from_ground, &p.key("from_ground"), v, "heat from the ground");
+        let injected = twelve(&m.to_ground, &p.key("to_ground"), v, "heat to the ground");
+        let pk = p.key("peak");
+        let peak = m.peak.as_ref();
         let pe = optional_twelve(
-            &m.peak_extraction,
-            &p.key("peak_extraction"),
+            &peak.and_then(|k| k.from_ground.as_deref()),
+            &pk.key("from_ground"),
             v,
-            "peak extraction",
+            "peak from the ground",
         );
-        let pi = optional_twelve(&m.peak_injection, &p.key("peak_injection"), v, "peak injection");
-        let duration = peak_duration(&m.peak_hours, &p.key("peak_hours"), v);
+        let pi = optional_twelve(
+            &peak.and_then(|k| k.to_ground.as_deref()),
+            &pk.key("to_ground"),
+            v,
+            "peak to the ground",
+        );
+        let duration = peak_duration(&peak.and_then(|k| k.duration.as_ref()), &pk.key("duration"), v);
         return Some(GroundLoads::Monthly {
             extracted_j: extracted?,
             injected_j: injected?,
@@ -587,11 +594,13 @@ fn loads(doc: &LoadsDoc, path: &KeyPath, v: &mut Validator) -> Option<GroundLoad
         let p = path.key("building");
         let heating = twelve(&b.heating, &p.key("heating"), v, "heating");
         let cooling = twelve(&b.cooling, &p.key("cooling"), v, "cooling");
-        let ph = optional_twelve(&b.peak_heating, &p.key("peak_heating"), v, "peak heating");
-        let pc = optional_twelve(&b.peak_cooling, &p.key("peak_cooling"), v, "peak cooling");
+        let pk = p.key("peak");
+        let peak = b.peak.as_ref();
+        let ph = optional_twelve(&peak.and_then(|k| k.heating.as_deref()), &pk.key("heating"), v, "peak heating");
+        let pc = optional_twelve(&peak.and_then(|k| k.cooling.as_deref()), &pk.key("cooling"), v, "peak cooling");
         let cop = v.within(Some(b.cop), (1.0, 20.0), &p.key("cop"), "the COP");
         let eer = v.within(Some(b.eer), (1.0, 40.0), &p.key("eer"), "the EER");
-        let duration = peak_duration(&b.peak_hours, &p.key("peak_hours"), v);
+        let duration = peak_duration(&peak.and_then(|k| k.duration.as_ref()), &pk.key("duration"), v);
         return Some(GroundLoads::Building {
             heating_j: heating?,
             cooling_j: cooling?,
