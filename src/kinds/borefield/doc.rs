@@ -4,12 +4,10 @@
 //!
 //! Doc comments here become the schema's descriptions: write them for the user.
 
-
 use crate::site::doc::MethodDoc;
 use crate::site::quantity::*;
 use schemars::JsonSchema;
 use serde::Deserialize;
-
 
 /// A field of vertical ground heat exchangers (boreholes) serving a heat pump.
 #[derive(Debug, Deserialize, JsonSchema)]

@@ -3,11 +3,11 @@
 // HTML is written line by line; a trailing `\n` in `write!` keeps the markup readable.
 #![allow(clippy::write_with_newline)]
 
+use super::BorefieldResult;
 use crate::report::Figure;
 use crate::report::html::esc;
 use crate::report::plot::{Band, LinePlot, Series, SeriesStyle, render_line_plot};
 use crate::results::StudyResult;
-use super::BorefieldResult;
 use std::fmt::Write;
 
 const MONTH_NAMES: [&str; 12] = [
@@ -66,7 +66,8 @@ pub fn figures(s: &StudyResult, b: &BorefieldResult) -> Result<Vec<Figure>, Stri
         )?,
     };
     let n = b.months.len();
-    let month_series = |rows: &[crate::kinds::borefield::FluidMonth], f: fn(&crate::kinds::borefield::FluidMonth) -> f64| {
+    let month_series = |rows: &[crate::kinds::borefield::FluidMonth],
+                        f: fn(&crate::kinds::borefield::FluidMonth) -> f64| {
         rows.iter()
             .enumerate()
             .map(|(i, m)| (i as f64 + 1.0, f(m)))

@@ -23,13 +23,24 @@
 //! corrected once by the difference, so the figures reported always come from an exact
 //! g-function at the reported length.
 
-use crate::ground::profile::Undisturbed;
-use crate::materials::fluids::Fluid;
-use crate::model::{Site, SoilLayer};
+use super::AnnualGroundLoads;
 use super::Borefield;
+use super::BorefieldFluid;
+use super::BorefieldGround;
+use super::BorefieldResult;
+use super::BorefieldSizing;
 use super::BoreholeWall;
+use super::FluidLimits;
+use super::FluidMonth;
+use super::FluidTemperatureFigures;
+use super::GPoint;
 use super::GroundLoads;
 use super::HeatExchanger;
+use super::validate::SIZING_RANGE_M;
+use crate::ground::profile::Undisturbed;
+use crate::kinds::Outcome;
+use crate::materials::fluids::Fluid;
+use crate::model::{Site, SoilLayer};
 use crate::physics::borehole::{
     self, BoreholeResistances, Coaxial, DEFAULT_MULTIPOLE_ORDER, DoubleU, SingleU,
 };
@@ -42,17 +53,6 @@ use crate::physics::superposition::{
     self, BoreholeOperation, FluidTemperatures, MONTH_S, MonthlyLoads, SampledStepResponse,
 };
 use crate::results::{Assumption, Check, Level, Warning};
-use crate::kinds::Outcome;
-use super::AnnualGroundLoads;
-use super::BorefieldFluid;
-use super::BorefieldGround;
-use super::BorefieldResult;
-use super::BorefieldSizing;
-use super::FluidLimits;
-use super::FluidMonth;
-use super::FluidTemperatureFigures;
-use super::GPoint;
-use super::validate::SIZING_RANGE_M;
 use std::f64::consts::PI;
 
 /// Lengths at which sizing computes the g-function before interpolating in ln H.
@@ -79,7 +79,12 @@ const SIZING_TOLERANCE_K: f64 = 0.02;
 /// [`SIZING_TOLERANCE_K`]; the check allows for the once-corrected g-function), K.
 pub const SIZED_LIMIT_TOLERANCE_K: f64 = 0.1;
 
-pub fn run(id: &str, b: &Borefield, site: &Site, ground: &Undisturbed) -> Result<Outcome<BorefieldResult>, String> {
+pub fn run(
+    id: &str,
+    b: &Borefield,
+    site: &Site,
+    ground: &Undisturbed,
+) -> Result<Outcome<BorefieldResult>, String> {
     let design = Design::new(b, site, ground)?;
     let (length, sizing) = if b.size {
         let s = design.size()?;
@@ -951,7 +956,11 @@ fn result(
         })
     };
     let margin = coldest - freezing;
-    let tolerance = if sized.is_some() { SIZED_LIMIT_TOLERANCE_K } else { 0.0 };
+    let tolerance = if sized.is_some() {
+        SIZED_LIMIT_TOLERANCE_K
+    } else {
+        0.0
+    };
     let checks = vec![
         Check::new(
             "borefield.min_fluid",
@@ -960,9 +969,15 @@ fn result(
             Some(b.min_fluid_c),
             "°C",
             if figures.min_c >= b.min_fluid_c - tolerance {
-                format!("the coldest mean fluid temperature, {:.2} °C, meets the lower limit of {} °C", figures.min_c, b.min_fluid_c)
+                format!(
+                    "the coldest mean fluid temperature, {:.2} °C, meets the lower limit of {} °C",
+                    figures.min_c, b.min_fluid_c
+                )
             } else {
-                format!("the coldest mean fluid temperature, {:.2} °C, is below the lower limit of {} °C", figures.min_c, b.min_fluid_c)
+                format!(
+                    "the coldest mean fluid temperature, {:.2} °C, is below the lower limit of {} °C",
+                    figures.min_c, b.min_fluid_c
+                )
             },
         ),
         Check::new(
@@ -972,9 +987,15 @@ fn result(
             Some(b.max_fluid_c),
             "°C",
             if figures.max_c <= b.max_fluid_c + tolerance {
-                format!("the warmest mean fluid temperature, {:.2} °C, meets the upper limit of {} °C", figures.max_c, b.max_fluid_c)
+                format!(
+                    "the warmest mean fluid temperature, {:.2} °C, meets the upper limit of {} °C",
+                    figures.max_c, b.max_fluid_c
+                )
             } else {
-                format!("the warmest mean fluid temperature, {:.2} °C, is above the upper limit of {} °C", figures.max_c, b.max_fluid_c)
+                format!(
+                    "the warmest mean fluid temperature, {:.2} °C, is above the upper limit of {} °C",
+                    figures.max_c, b.max_fluid_c
+                )
             },
         ),
         Check::new(
@@ -984,9 +1005,15 @@ fn result(
             Some(ANTIFREEZE_MARGIN_K),
             "K",
             if margin >= ANTIFREEZE_MARGIN_K {
-                format!("the coldest fluid stays {margin:.1} K above the freezing point of the {} (at least {ANTIFREEZE_MARGIN_K} K)", fluid_name(&b.fluid))
+                format!(
+                    "the coldest fluid stays {margin:.1} K above the freezing point of the {} (at least {ANTIFREEZE_MARGIN_K} K)",
+                    fluid_name(&b.fluid)
+                )
             } else {
-                format!("the coldest fluid comes within {margin:.1} K of the freezing point of the {} (keep at least {ANTIFREEZE_MARGIN_K} K)", fluid_name(&b.fluid))
+                format!(
+                    "the coldest fluid comes within {margin:.1} K of the freezing point of the {} (keep at least {ANTIFREEZE_MARGIN_K} K)",
+                    fluid_name(&b.fluid)
+                )
             },
         ),
     ];
@@ -1136,7 +1163,12 @@ fn result(
             "",
             "Bennet, Claesson & Hellström (1987); converged to better than 0.1 % at order 10",
         ),
-        Assumption::new("length of a model month", HOURS_PER_MONTH as f64, "h", "a 365-day year in twelve equal parts"),
+        Assumption::new(
+            "length of a model month",
+            HOURS_PER_MONTH as f64,
+            "h",
+            "a 365-day year in twelve equal parts",
+        ),
         Assumption::new(
             "flow laminar below the Reynolds number",
             LAMINAR_LIMIT_RE,

@@ -3,20 +3,19 @@
 
 use super::doc::*;
 
-use crate::materials::fluids::{Fluid, Mixture};
-use crate::model::Method;
 use super::Borefield;
 use super::BoreholeWall;
 use super::GroundLoads;
 use super::HeatExchanger;
 use super::LoopPipe;
+use crate::materials::fluids::{Fluid, Mixture};
+use crate::model::Method;
 use crate::physics::borehole::DoubleUPairing;
 use crate::physics::gfunction::WallCondition;
 use crate::physics::superposition::MONTH_S;
 use crate::site::diagnostic::KeyPath;
 use crate::site::quantity::*;
 use crate::site::validate::Validator;
-
 
 /// The methods this kind offers: g-functions and superposition (analytic).
 pub const METHODS: [Method; 1] = [Method::Analytic];
@@ -596,8 +595,18 @@ fn loads(doc: &LoadsDoc, path: &KeyPath, v: &mut Validator) -> Option<GroundLoad
         let cooling = twelve(&b.cooling, &p.key("cooling"), v, "cooling");
         let pk = p.key("peak");
         let peak = b.peak.as_ref();
-        let ph = optional_twelve(&peak.and_then(|k| k.heating.as_deref()), &pk.key("heating"), v, "peak heating");
-        let pc = optional_twelve(&peak.and_then(|k| k.cooling.as_deref()), &pk.key("cooling"), v, "peak cooling");
+        let ph = optional_twelve(
+            &peak.and_then(|k| k.heating.as_deref()),
+            &pk.key("heating"),
+            v,
+            "peak heating",
+        );
+        let pc = optional_twelve(
+            &peak.and_then(|k| k.cooling.as_deref()),
+            &pk.key("cooling"),
+            v,
+            "peak cooling",
+        );
         let cop = v.within(Some(b.cop), (1.0, 20.0), &p.key("cop"), "the COP");
         let eer = v.within(Some(b.eer), (1.0, 40.0), &p.key("eer"), "the EER");
         let duration = peak_duration(&peak.and_then(|k| k.duration.as_ref()), &pk.key("duration"), v);

@@ -2,13 +2,11 @@
 //!
 //! Doc comments here become the schema's descriptions: write them for the user.
 
-
 use crate::site::doc::MethodDoc;
 use crate::site::doc::PipeDoc;
 use crate::site::quantity::*;
 use schemars::JsonSchema;
 use serde::Deserialize;
-
 
 /// A 2-D cross-section of the ground (x across, depth down) solved by the finite-volume engine.
 #[derive(Debug, Deserialize, JsonSchema)]

@@ -3,14 +3,14 @@
 // HTML is written line by line; a trailing `\n` in `write!` keeps the markup readable.
 #![allow(clippy::write_with_newline)]
 
+use super::CrossSectionResult;
 use crate::report::Figure;
-use crate::report::plot::isotherm_levels;
 use crate::report::html::esc;
+use crate::report::plot::isotherm_levels;
 use crate::report::plot::{
     ArrowLayer, FieldPlot, LinePlot, Series, SeriesStyle, render_field_plot_with_arrows, render_line_plot,
 };
 use crate::results::StudyResult;
-use super::CrossSectionResult;
 use std::fmt::Write;
 
 pub fn figures(s: &StudyResult, c: &CrossSectionResult) -> Result<Vec<Figure>, String> {

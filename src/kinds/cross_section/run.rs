@@ -1,19 +1,18 @@
 //! `kind: cross-section`: the site's ground with the study's pipes and inclusions, solved by the
 //! 2-D finite-volume engine (transient over a duration, or steady).
 
+use super::CrossSection;
+use super::SectionTime;
+use super::result::*;
 use crate::engine::material::Material;
 use crate::engine::section::{
-    self, GridOptions, Inclusion, Initial, SectionModel, TimeFunction,
-    TransientOptions,
+    self, GridOptions, Inclusion, Initial, SectionModel, TimeFunction, TransientOptions,
 };
 use crate::ground::climate::SurfaceYear;
 use crate::ground::profile::Undisturbed;
-use crate::model::{DAY_S, Site};
-use super::CrossSection;
-use super::SectionTime;
-use crate::results::*;
 use crate::kinds::engine_model::{annual_mean, engine_pipe, sample, soil_layers};
-use super::result::*;
+use crate::model::{DAY_S, Site};
+use crate::results::*;
 
 /// Largest ratio of neighbouring cells of the grid.
 const GROWTH_RATIO: f64 = 1.15;

@@ -10,7 +10,6 @@ use super::SectionTime;
 use crate::site::diagnostic::KeyPath;
 use crate::site::validate::{self, Validator, round_sig};
 
-
 pub fn validate(doc: &CrossSectionDoc, path: &KeyPath, v: &mut Validator) -> Option<CrossSection> {
     let width = v.positive_q(
         &doc.domain.width,

@@ -2,13 +2,11 @@
 //!
 //! Doc comments here become the schema's descriptions: write them for the user.
 
-
 use crate::site::doc::MethodDoc;
 use crate::site::doc::PipeDoc;
 use crate::site::quantity::*;
 use schemars::JsonSchema;
 use serde::Deserialize;
-
 
 /// Frost penetration under the site's climate and whether a water main at its cover stays
 /// frost-free.

@@ -137,9 +137,15 @@ fn checks(r: &FrostResult) -> Vec<Check> {
             Some(crown),
             "m",
             if reaches {
-                format!("frost reaches {:.2} m, below the crown at {crown:.2} m", r.max_frost_depth_m)
+                format!(
+                    "frost reaches {:.2} m, below the crown at {crown:.2} m",
+                    r.max_frost_depth_m
+                )
             } else {
-                format!("the crown at {crown:.2} m lies below the frost depth of {:.2} m", r.max_frost_depth_m)
+                format!(
+                    "the crown at {crown:.2} m lies below the frost depth of {:.2} m",
+                    r.max_frost_depth_m
+                )
             },
         ));
         if let Some(required) = r.required_cover_m {
@@ -167,9 +173,18 @@ fn checks(r: &FrostResult) -> Vec<Check> {
             Some(st.duration_h),
             "h",
             match st.time_to_first_ice_h {
-                Some(t) if freezes => format!("standing water starts to freeze after {t:.0} h, within the {:.0} h without flow", st.duration_h),
-                Some(t) => format!("standing water first freezes after {t:.0} h, later than the {:.0} h without flow", st.duration_h),
-                None => format!("standing water does not freeze in the {:.0} h without flow", st.duration_h),
+                Some(t) if freezes => format!(
+                    "standing water starts to freeze after {t:.0} h, within the {:.0} h without flow",
+                    st.duration_h
+                ),
+                Some(t) => format!(
+                    "standing water first freezes after {t:.0} h, later than the {:.0} h without flow",
+                    st.duration_h
+                ),
+                None => format!(
+                    "standing water does not freeze in the {:.0} h without flow",
+                    st.duration_h
+                ),
             },
         ));
     }
@@ -183,7 +198,10 @@ fn checks(r: &FrostResult) -> Vec<Check> {
             match width {
                 Some(0.0) => "the crown stays out of frost without a board".to_string(),
                 Some(w) => format!("a board {w:.2} m wide keeps the crown above 0 °C"),
-                None => format!("no board up to {:.2} m wide keeps the crown above 0 °C", board.max_width_m),
+                None => format!(
+                    "no board up to {:.2} m wide keeps the crown above 0 °C",
+                    board.max_width_m
+                ),
             },
         ));
     }

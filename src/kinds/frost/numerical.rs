@@ -16,16 +16,16 @@
 //! between 0 °C and `−interval`), 0 °C is where the first ice forms: deeper than a sharp-front
 //! formula's depth by part of the mushy zone, so the numerical figure is on the safe side.
 
+use super::FrostBoard;
 use crate::engine::material::Material;
 use crate::engine::section::{
     self, GridOptions, Inclusion, Initial, SectionModel, Snapshot, Solution, TransientOptions,
 };
 use crate::ground::climate::SurfaceYear;
 use crate::ground::profile::Undisturbed;
-use crate::model::{DAY_S, Pipe, Site, YEAR_S};
-use super::FrostBoard;
-use crate::physics::frost as fp;
 use crate::kinds::engine_model::{engine_pipe, sample, soil_layers};
+use crate::model::{DAY_S, Pipe, Site, YEAR_S};
+use crate::physics::frost as fp;
 
 /// Mesh and steps of the frost runs.
 #[derive(Clone, Copy, Debug, PartialEq)]

@@ -1,16 +1,16 @@
 //! `kind: frost`: design freezing index, frost depth by Stefan and the modified Berggren
 //! equation (TM 5-852-6), and whether a water main at its cover stays frost-free.
 
+use super::Frost;
+use super::numerical::{self, DEFAULT_RESOLUTION, PipeRun, Winter};
+use super::result::*;
 use crate::calendar::{civil_from_days, days_from_civil};
 use crate::ground::climate::SurfaceYear;
 use crate::ground::profile::Undisturbed;
 use crate::model::{Climate, DAY_S, Method, NFactors, Pipe, PipeDrive, Site};
-use super::Frost;
 use crate::physics::buried_pipe::{GroundForm, Soil, ground::ground_resistance_m_k_per_w};
 use crate::physics::frost as fp;
 use crate::results::*;
-use super::result::*;
-use super::numerical::{self, DEFAULT_RESOLUTION, PipeRun, Winter};
 
 /// Volumetric heat capacity of water near 0 °C, J/(m3 K): 999.8 kg/m3 × 4219 J/(kg K) (IAPWS-95
 /// at 0.01 °C, from memory).

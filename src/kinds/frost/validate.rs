@@ -3,13 +3,12 @@
 
 use super::doc::*;
 
-use crate::model::{Method, PipeDrive};
 use super::Frost;
 use super::FrostBleed;
 use super::FrostBoard;
+use crate::model::{Method, PipeDrive};
 use crate::site::diagnostic::KeyPath;
 use crate::site::validate::{self, Validator};
-
 
 /// The methods this kind offers: the analytic formulas, the engine's winter run, or both.
 pub const METHODS: [Method; 3] = [Method::Analytic, Method::Numerical, Method::Both];

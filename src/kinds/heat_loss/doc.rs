@@ -3,7 +3,6 @@
 //!
 //! Doc comments here become the schema's descriptions: write them for the user.
 
-
 use crate::site::doc::MethodDoc;
 use crate::site::doc::{LayerConductivityDoc, PipeDoc, PipeFluidDoc, WallLayerDoc};
 use crate::site::quantity::*;
@@ -13,7 +12,6 @@ use serde::Deserialize;
 /// Surface resistance this kind uses unless the study gives one: EN 13941-1 practice
 /// (`from memory`: 0.0685 m2 K/W).
 pub use crate::physics::buried_pipe::DEFAULT_SURFACE_RESISTANCE_M2_K_PER_W;
-
 
 /// Heat loss of buried district-heating pipes (a supply/return pair, or any pipes in one trench).
 #[derive(Debug, Deserialize, JsonSchema)]

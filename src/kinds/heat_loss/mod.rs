@@ -58,7 +58,10 @@ impl Kind for HeatLossKind {
     }
 
     fn decisive_figures(r: &Self::Result) -> Vec<DecisiveFigure> {
-        let limited = r.sizing.as_ref().is_some_and(|z| z.heat_loss_limit_w_per_m.is_some());
+        let limited = r
+            .sizing
+            .as_ref()
+            .is_some_and(|z| z.heat_loss_limit_w_per_m.is_some());
         let mut loss = DecisiveFigure::new(
             "total_heat_loss_w_per_m",
             r.total_heat_loss_w_per_m,
@@ -175,9 +178,15 @@ fn checks(r: &HeatLossResult) -> Vec<Check> {
                 Some(limit),
                 "°C",
                 if n.exceeds_limit {
-                    format!("the soil at {} reaches {:.1} °C, above its limit of {limit} °C", n.id, n.max_temperature_c)
+                    format!(
+                        "the soil at {} reaches {:.1} °C, above its limit of {limit} °C",
+                        n.id, n.max_temperature_c
+                    )
                 } else {
-                    format!("the soil at {} stays at or below {:.1} °C, within its limit of {limit} °C", n.id, n.max_temperature_c)
+                    format!(
+                        "the soil at {} stays at or below {:.1} °C, within its limit of {limit} °C",
+                        n.id, n.max_temperature_c
+                    )
                 },
             ));
         }

@@ -14,10 +14,10 @@
 //! nearest half cell), with cells of a twelfth of the radius; the thin casing
 //! wall (a few mm, below the cell size; about 1 % of the symmetric resistance) is left as soil.
 
-use crate::engine::section::{self, Drive, GridOptions, Inclusion, Pipe as EnginePipe, SectionModel};
-use crate::model::{Pipe, PipeDrive, Site};
 use super::TwinCasing;
+use crate::engine::section::{self, Drive, GridOptions, Inclusion, Pipe as EnginePipe, SectionModel};
 use crate::kinds::engine_model::{engine_pipe, sample, soil_layers};
+use crate::model::{Pipe, PipeDrive, Site};
 
 /// Strips (rows of cells) per radius of a twin pipe's insulation staircase.
 const ROWS_PER_RADIUS: usize = 12;

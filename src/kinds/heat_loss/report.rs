@@ -3,12 +3,12 @@
 // HTML is written line by line; a trailing `\n` in `write!` keeps the markup readable.
 #![allow(clippy::write_with_newline)]
 
+use super::HeatLossResult;
 use crate::report::Figure;
-use crate::report::plot::isotherm_levels;
 use crate::report::html::esc;
+use crate::report::plot::isotherm_levels;
 use crate::report::plot::{FieldPlot, LinePlot, Series, SeriesStyle, render_field_plot, render_line_plot};
 use crate::results::StudyResult;
-use super::HeatLossResult;
 use std::fmt::Write;
 
 pub fn figures(s: &StudyResult, h: &HeatLossResult) -> Result<Vec<Figure>, String> {

@@ -6,11 +6,12 @@
 //! cylinders; each month a steady state of that month's fluid temperatures against the month's
 //! undisturbed ground temperature at the pipe's depth (EN 13941-1 practice).
 
-
-use crate::ground::profile::Undisturbed;
-use crate::model::{InsulationLaw, Method, Pipe, PipeDrive, Site};
 use super::HeatLoss;
 use super::TwinCasing;
+use super::numerical::{self, Responses, TwinBody};
+use super::result::*;
+use crate::ground::profile::Undisturbed;
+use crate::model::{InsulationLaw, Method, Pipe, PipeDrive, Site};
 use crate::physics::buried_pipe::seasonal::{annual_energy_kwh_per_m, monthly_pipe_states};
 use crate::physics::buried_pipe::sizing::{cheapest, present_value_factor};
 use crate::physics::buried_pipe::system::{
@@ -23,8 +24,6 @@ use crate::physics::buried_pipe::wall::{
 };
 use crate::physics::buried_pipe::{GroundForm, Position, Soil};
 use crate::results::*;
-use super::result::*;
-use super::numerical::{self, Responses, TwinBody};
 use rayon::prelude::*;
 
 /// Layers within twice the pipe depth whose conductivity differs from the one used by more than

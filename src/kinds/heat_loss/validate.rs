@@ -3,12 +3,12 @@
 
 use super::doc::*;
 
-use crate::model::{Pipe, WallLayer};
 use super::Economics;
 use super::HeatLoss;
 use super::Neighbour;
 use super::Sizing;
 use super::TwinCasing;
+use crate::model::{Pipe, WallLayer};
 use crate::site::diagnostic::KeyPath;
 use crate::site::doc::PipeDoc;
 use crate::site::validate::{self, Validator};
@@ -16,7 +16,6 @@ use crate::site::validate::{self, Validator};
 /// Surface resistance this kind uses unless the study gives one: EN 13941-1 practice
 /// (`from memory`: 0.0685 m2 K/W).
 pub use crate::physics::buried_pipe::DEFAULT_SURFACE_RESISTANCE_M2_K_PER_W;
-
 
 /// The methods this kind offers: the analytic figures, alone or with the engine's steady
 /// solution beside them as a cross-check.
@@ -186,7 +185,14 @@ fn twin(doc: &TwinDoc, path: &KeyPath, v: &mut Validator) -> Option<(Vec<Pipe>, 
         &path.key("outer_diameter"),
         "the casing diameter",
     );
-    let depth = validate::centre_depth(&doc.depth, &doc.cover, diameter, path, v, "the twin pipe's casing");
+    let depth = validate::centre_depth(
+        &doc.depth,
+        &doc.cover,
+        diameter,
+        path,
+        v,
+        "the twin pipe's casing",
+    );
     v.plausible(depth, (0.2, 10.0), &path.key("depth"), "a pipe depth", "m");
     v.plausible(
         diameter,
