@@ -207,19 +207,25 @@ fn checks(checks: &[Check]) -> Markup {
 }
 
 /// A decisive figure's value printed for its unit: temperatures and temperature differences to
-/// 0.1 K, anything else to three significant figures (whole digits are never rounded away).
+/// 0.1 K, anything else to three significant figures but at most three decimals (a millimetre
+/// of a length); whole digits are never rounded away.
 pub fn figure_value(value: f64, unit: &str) -> String {
     if !value.is_finite() {
         return "—".into();
     }
-    if matches!(unit, "°C" | "K") {
-        return format!("{value:.1}");
+    let decimals = if matches!(unit, "°C" | "K") {
+        1
+    } else if value == 0.0 {
+        0
+    } else {
+        (2 - value.abs().log10().floor() as i32).clamp(0, 3) as usize
+    };
+    let text = format!("{value:.decimals$}");
+    // A value that rounds to zero is printed without a sign.
+    match text.strip_prefix('-') {
+        Some(rest) if rest.chars().all(|c| c == '0' || c == '.') => rest.to_string(),
+        _ => text,
     }
-    if value == 0.0 {
-        return "0".into();
-    }
-    let decimals = (2 - value.abs().log10().floor() as i32).clamp(0, 6) as usize;
-    format!("{value:.decimals$}")
 }
 
 fn inputs(site: &Site) -> Markup {
@@ -542,7 +548,10 @@ mod tests {
 
     #[test]
     fn figure_values_keep_three_significant_figures_and_temperatures_a_tenth_of_a_kelvin() {
-        assert_eq!(figure_value(0.075, "m"), "0.0750");
+        assert_eq!(figure_value(0.075, "m"), "0.075");
+        assert_eq!(figure_value(0.04364, "m"), "0.044");
+        assert_eq!(figure_value(3.8e-18, "m"), "0.000");
+        assert_eq!(figure_value(-0.02, "°C"), "0.0");
         assert_eq!(figure_value(1.5, "m"), "1.50");
         assert_eq!(figure_value(23.456, "W/m"), "23.5");
         assert_eq!(figure_value(-12.02, "W/m"), "-12.0");
