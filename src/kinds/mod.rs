@@ -70,7 +70,7 @@ pub trait Kind {
     /// The study's plots.
     fn figures(study: &StudyResult, result: &Self::Result) -> Result<Vec<Figure>, String>;
     /// The study's section of the report page (after its inputs, before its plots).
-    fn section(result: &Self::Result, out: &mut String);
+    fn section(result: &Self::Result) -> maud::Markup;
     /// The study's CSV files: name and text.
     fn csv_files(study: &StudyResult, result: &Self::Result) -> Vec<(String, String)>;
 }
@@ -183,8 +183,8 @@ macro_rules! study_kinds {
                 match self { $( Figures::$variant(r) => <$module::$kind as Kind>::figures(study, r), )+ }
             }
 
-            pub fn section(&self, out: &mut String) {
-                match self { $( Figures::$variant(r) => <$module::$kind as Kind>::section(r, out), )+ }
+            pub fn section(&self) -> maud::Markup {
+                match self { $( Figures::$variant(r) => <$module::$kind as Kind>::section(r), )+ }
             }
 
             pub fn csv_files(&self, study: &StudyResult) -> Vec<(String, String)> {

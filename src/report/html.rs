@@ -1,31 +1,16 @@
 //! `report.html`: one self-contained page (inline CSS and SVG, no scripts, no network
-//! resources). Every text that comes from the user is escaped.
-
-// HTML is written line by line; a trailing `\n` in `write!` keeps the markup readable.
-#![allow(clippy::write_with_newline)]
+//! resources), built with maud: every text spliced into the page is escaped by construction,
+//! and only our own CSS and the SVG of our own plot renderer go in unescaped.
+//!
+//! The page renders what the results hold and decides nothing: the summary shows each study's
+//! decisive figures and the checks the study made, as the study wrote them.
 
 use super::plot::{Band, LinePlot, Series, SeriesStyle};
 use super::{Figure, ReportFigures};
 use crate::model::{Climate, Site};
-use crate::results::{Figures, Level, Results, StudyResult};
+use crate::results::{Assumption, Check, DecisiveFigure, Level, Results, StudyFailure};
 use crate::site::units::{Dimension, format_quantity};
-use std::fmt::Write;
-
-/// Escapes text for HTML element content and attribute values.
-pub fn esc(text: &str) -> String {
-    let mut s = String::with_capacity(text.len());
-    for c in text.chars() {
-        match c {
-            '&' => s.push_str("&amp;"),
-            '<' => s.push_str("&lt;"),
-            '>' => s.push_str("&gt;"),
-            '"' => s.push_str("&quot;"),
-            '\'' => s.push_str("&#39;"),
-            _ => s.push(c),
-        }
-    }
-    s
-}
+use maud::{DOCTYPE, Markup, PreEscaped, html};
 
 const STYLE: &str = r#"
 :root { --ink:#1d2327; --muted:#5b6770; --rule:#c9d1d6; --danger:#a3122a; --caution:#8a5a00; --info:#2f5d7c; }
@@ -40,6 +25,7 @@ td.n, th.n { text-align: right; font-variant-numeric: tabular-nums; }
 .warning.danger { border-color: var(--danger); } .warning.caution { border-color: var(--caution); } .warning.info { border-color: var(--info); }
 .warning .level { font-weight: bold; text-transform: uppercase; letter-spacing: .04em; margin-right: .5rem; }
 .danger .level { color: var(--danger); } .caution .level { color: var(--caution); } .info .level { color: var(--info); }
+.fails { color: var(--danger); font-weight: bold; }
 figure { margin: 1rem 0; page-break-inside: avoid; break-inside: avoid; } figure svg { width: 100%; height: auto; max-width: 720px; display: block; }
 figcaption { color: var(--muted); font-size: .9rem; }
 .cautions { border: 1px solid var(--ink); padding: .7rem 1rem; margin-top: 2rem; }
@@ -50,68 +36,93 @@ section.study { page-break-before: always; break-before: page; }
 
 /// The whole report page.
 pub fn report(results: &Results, site: &Site, figures: &ReportFigures) -> String {
-    let mut h = String::new();
-    let _ = write!(
-        h,
-        "<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n<title>{} — burrow report</title>\n<style>{STYLE}</style>\n</head>\n<body>\n",
-        esc(&results.site.name)
-    );
-    title_block(&mut h, results);
-    warnings(&mut h, results);
-    summary(&mut h, results);
-    inputs(&mut h, site);
-    ground(&mut h, results, &figures.ground);
-    studies(&mut h, results, site, &figures.studies);
-    let _ = write!(
-        h,
-        "<h2 id=\"cautions\">Cautions</h2>\n<p class=\"cautions\">{}</p>\n</body>\n</html>\n",
-        esc(crate::CAUTION)
-    );
-    h
+    html! {
+        (DOCTYPE)
+        html lang="en" {
+            head {
+                meta charset="utf-8";
+                meta name="viewport" content="width=device-width, initial-scale=1";
+                title { (results.site.name) " — burrow report" }
+                // Our own constant style sheet; escaping would break its quoted font names.
+                style { (PreEscaped(STYLE)) }
+            }
+            body {
+                (title_block(results))
+                (warnings(results))
+                (failed_studies(&results.failed_studies))
+                (summary(results))
+                (inputs(site))
+                (ground(results, &figures.ground))
+                (studies(results, site, &figures.studies))
+                h2 #cautions { "Cautions" }
+                p.cautions { (crate::CAUTION) }
+            }
+        }
+    }
+    .into_string()
 }
 
-fn title_block(h: &mut String, r: &Results) {
-    let _ = write!(h, "<header>\n<h1>{}</h1>\n", esc(&r.site.name));
-    if let Some(d) = &r.site.description {
-        let _ = write!(h, "<p>{}</p>\n", esc(d));
-    }
-    let _ = write!(
-        h,
-        "<p class=\"meta\">burrow {} · report of {} · input <code>{}</code> (SHA-256 <code>{}</code>)</p>\n<p class=\"meta\">Estimates for design support; see the cautions at the end.</p>\n</header>\n",
-        esc(&r.tool.version),
-        crate::calendar::today_utc(),
-        esc(&r.site.input_file),
-        esc(&r.site.input_sha256)
-    );
-}
-
-fn warnings(h: &mut String, r: &Results) {
-    let _ = write!(h, "<h2 id=\"warnings\">Warnings</h2>\n");
-    if r.warnings.is_empty() {
-        let _ = write!(h, "<p>No warning was raised.</p>\n");
-        return;
-    }
-    for w in &r.warnings {
-        let (class, word) = match w.level {
-            Level::Danger => ("danger", "danger"),
-            Level::Caution => ("caution", "caution"),
-            Level::Info => ("info", "note"),
-        };
-        let study = w
-            .study
-            .as_deref()
-            .map(|s| format!(" · study {}", esc(s)))
-            .unwrap_or_default();
-        let _ = write!(
-            h,
-            "<div class=\"warning {class}\"><span class=\"level\">{word}</span><code>{}</code>{study}<br>{}</div>\n",
-            esc(&w.code),
-            esc(&w.message)
-        );
+fn title_block(r: &Results) -> Markup {
+    html! {
+        header {
+            h1 { (r.site.name) }
+            @if let Some(d) = &r.site.description {
+                p { (d) }
+            }
+            p.meta {
+                "burrow " (r.tool.version) " · report of " (crate::calendar::today_utc())
+                " · input " code { (r.site.input_file) }
+                " (SHA-256 " code { (r.site.input_sha256) } ")"
+            }
+            p.meta { "Estimates for design support; see the cautions at the end." }
+        }
     }
 }
 
-fn summary(h: &mut String, r: &Results) {
+fn warnings(r: &Results) -> Markup {
+    html! {
+        h2 #warnings { "Warnings" }
+        @if r.warnings.is_empty() {
+            p { "No warning was raised." }
+        }
+        @for w in &r.warnings {
+            @let (class, word) = match w.level {
+                Level::Danger => ("danger", "danger"),
+                Level::Caution => ("caution", "caution"),
+                Level::Info => ("info", "note"),
+            };
+            div.warning.(class) {
+                span.level { (word) }
+                code { (w.code) }
+                @if let Some(s) = &w.study {
+                    " · study " (s)
+                }
+                br;
+                (w.message)
+            }
+        }
+    }
+}
+
+/// The studies that could not be run, beside the warnings so that no reader misses them.
+fn failed_studies(failed: &[StudyFailure]) -> Markup {
+    html! {
+        @if !failed.is_empty() {
+            h2 #failed-studies { "Failed studies" }
+            p { "These studies could not be run; the report holds no figures of theirs. The other studies ran." }
+            @for f in failed {
+                div.warning.danger {
+                    span.level { "failed" }
+                    "study " code { (f.id) } " (" (f.kind) ")"
+                    br;
+                    (f.reason)
+                }
+            }
+        }
+    }
+}
+
+fn summary(r: &Results) -> Markup {
     let g = &r.ground;
     let surface_min = g.surface_daily_c.iter().cloned().fold(f64::INFINITY, f64::min);
     let surface_max = g
@@ -120,310 +131,287 @@ fn summary(h: &mut String, r: &Results) {
         .cloned()
         .fold(f64::NEG_INFINITY, f64::max);
     let deepest = g.profile.last().map(|p| p.depth_m).unwrap_or(0.0);
-    let _ = write!(
-        h,
-        "<h2 id=\"summary\">Summary</h2>\n<table>\n<tr><th>figure</th><th class=\"n\">value</th></tr>\n\
-<tr><td>Mean ground-surface temperature</td><td class=\"n\">{:.2} °C</td></tr>\n\
-<tr><td>Surface temperature range over the year</td><td class=\"n\">{:.1} to {:.1} °C</td></tr>\n\
-<tr><td>Deepest frost in the undisturbed ground</td><td class=\"n\">{}</td></tr>\n\
-<tr><td>Undisturbed temperature at {deepest} m (mean)</td><td class=\"n\">{:.2} °C</td></tr>\n\
-<tr><td>Studies run</td><td class=\"n\">{}</td></tr>\n</table>\n",
-        g.surface_mean_c,
-        surface_min,
-        surface_max,
-        if g.max_frost_depth_m > 0.0 {
-            format!("{:.2} m", g.max_frost_depth_m)
-        } else {
-            "none".into()
-        },
-        g.profile.last().map(|p| p.mean_c).unwrap_or(f64::NAN),
-        r.studies.len()
-    );
-    if r.studies.is_empty() {
-        return;
-    }
-    let _ = write!(
-        h,
-        "<table class=\"studies\">\n<tr><th>study</th><th>decisive figures</th><th>against its limits</th></tr>\n"
-    );
-    for s in &r.studies {
-        let (figures, verdict) = study_summary(s);
-        let _ = write!(
-            h,
-            "<tr><td><a href=\"#study-{}\">{}</a> ({})</td><td>{}</td><td>{}</td></tr>\n",
-            esc(&s.id),
-            esc(&s.id),
-            esc(&s.kind),
-            esc(&figures),
-            esc(&verdict)
-        );
-    }
-    let _ = write!(h, "</table>\n");
-}
-
-/// The one or two figures that decide a study, and whether they pass the limits the site file
-/// set (plain text; the caller escapes it).
-pub fn study_summary(s: &StudyResult) -> (String, String) {
-    match &s.figures {
-        Figures::HeatLoss(hl) => {
-            let figures = format!(
-                "heat loss {:.1} W per metre of trench; {:.1} MWh a year over {:.0} m",
-                hl.total_heat_loss_w_per_m, hl.annual_heat_loss_mwh, hl.length_m
-            );
-            let hot: Vec<&str> = hl
-                .neighbours
-                .iter()
-                .filter(|n| n.exceeds_limit)
-                .map(|n| n.id.as_str())
-                .collect();
-            let mut verdict = match hl
-                .sizing
-                .as_ref()
-                .and_then(|z| z.heat_loss_limit_w_per_m.map(|l| (z, l)))
-            {
-                Some((z, limit)) => match z.chosen_insulation_thickness_m {
-                    Some(t) => format!(
-                        "passes the {limit} W/m limit with {:.0} mm of {}",
-                        t * 1000.0,
-                        z.layer
-                    ),
-                    None => format!("FAILS: no candidate meets the {limit} W/m limit"),
-                },
-                None => "no heat-loss limit set".into(),
-            };
-            if !hot.is_empty() {
-                verdict.push_str(&format!("; FAILS: soil too warm at {}", hot.join(", ")));
+    html! {
+        h2 #summary { "Summary" }
+        table {
+            tr { th { "figure" } th.n { "value" } }
+            tr {
+                td { "Mean ground-surface temperature" }
+                td.n { (format!("{:.2} °C", g.surface_mean_c)) }
             }
-            (figures, verdict)
+            tr {
+                td { "Surface temperature range over the year" }
+                td.n { (format!("{surface_min:.1} to {surface_max:.1} °C")) }
+            }
+            tr {
+                td { "Deepest frost in the undisturbed ground" }
+                td.n {
+                    @if g.max_frost_depth_m > 0.0 {
+                        (format!("{:.2} m", g.max_frost_depth_m))
+                    } @else {
+                        "none"
+                    }
+                }
+            }
+            tr {
+                td { "Undisturbed temperature at " (deepest) " m (mean)" }
+                td.n { (format!("{:.2} °C", g.profile.last().map(|p| p.mean_c).unwrap_or(f64::NAN))) }
+            }
+            tr { td { "Studies run" } td.n { (r.studies.len()) } }
         }
-        Figures::Frost(f) => {
-            let figures = format!(
-                "frost depth {:.2} m{}",
-                f.max_frost_depth_m,
-                f.required_cover_m
-                    .map(|c| format!("; required cover {c:.2} m"))
-                    .unwrap_or_default()
-            );
-            let mut verdict = match f.frost_reaches_pipe {
-                Some(true) => "FAILS: frost reaches the pipe".to_string(),
-                Some(false) => "passes: the pipe lies below the frost".to_string(),
-                None => "no pipe checked".to_string(),
-            };
-            if let Some(t) = f.stagnant.as_ref().and_then(|st| st.time_to_first_ice_h) {
-                verdict.push_str(&format!(
-                    "; FAILS: standing water starts to freeze after {t:.0} h"
-                ));
+        @if !r.studies.is_empty() || !r.failed_studies.is_empty() {
+            table.studies {
+                tr { th { "study" } th { "decisive figures" } th { "checks" } }
+                @for s in &r.studies {
+                    tr {
+                        td { a href={ "#study-" (s.id) } { (s.id) } " (" (s.kind) ")" }
+                        td { (decisive_figures(&s.decisive_figures)) }
+                        td { (checks(&s.checks)) }
+                    }
+                }
+                @for f in &r.failed_studies {
+                    tr {
+                        td { (f.id) " (" (f.kind) ")" }
+                        td colspan="2" { span.fails { "failed: " } (f.reason) }
+                    }
+                }
             }
-            (figures, verdict)
-        }
-        Figures::CrossSection(c) => (
-            format!(
-                "{}{}",
-                c.pipes
-                    .iter()
-                    .map(|p| format!("{}: {:.1} W/m", p.id, p.mean_heat_rate_w_per_m))
-                    .collect::<Vec<_>>()
-                    .join(", "),
-                c.max_frost_depth_m
-                    .map(|d| format!("; frost depth {d:.2} m"))
-                    .unwrap_or_default()
-            ),
-            "no limits (a free section)".into(),
-        ),
-        Figures::Borefield(b) => {
-            let t = &b.fluid_temperature;
-            let figures = format!(
-                "active length {:.1} m × {} boreholes ({:.0} m); mean fluid {:.1} to {:.1} °C",
-                b.active_length_m, b.boreholes, b.total_length_m, t.min_c, t.max_c
-            );
-            let tolerance = if b.sizing.is_some() { 0.1 } else { 0.0 };
-            let within =
-                t.min_c >= b.limits.min_fluid_c - tolerance && t.max_c <= b.limits.max_fluid_c + tolerance;
-            let mut verdict = if within {
-                format!(
-                    "passes: within {} to {} °C",
-                    b.limits.min_fluid_c, b.limits.max_fluid_c
-                )
-            } else {
-                format!(
-                    "FAILS: outside {} to {} °C",
-                    b.limits.min_fluid_c, b.limits.max_fluid_c
-                )
-            };
-            let margin = b.coldest_fluid_c - b.fluid_freezing_point_c;
-            if margin < crate::kinds::borefield::run::ANTIFREEZE_MARGIN_K {
-                verdict.push_str(&format!(
-                    "; FAILS: coldest fluid only {margin:.1} K above freezing"
-                ));
-            }
-            (figures, verdict)
         }
     }
 }
 
-fn inputs(h: &mut String, site: &Site) {
-    let _ = write!(h, "<h2 id=\"inputs\">Inputs</h2>\n<h3>Climate</h3>\n");
-    let t = |v| esc(&format_quantity(v, Dimension::Temperature));
-    match &site.climate {
-        Climate::AnnualWave {
-            mean_c,
-            amplitude_k,
-            coldest_day,
-        } => {
-            let _ = write!(
-                h,
-                "<p>Annual sinusoidal wave of the ground-surface temperature: mean {}, amplitude {}, coldest on day {coldest_day} of the year.</p>\n",
-                t(*mean_c),
-                esc(&format_quantity(*amplitude_k, Dimension::TemperatureDifference))
-            );
-        }
-        Climate::MonthlyAir { air_c, n_factors } => {
-            let _ = write!(
-                h,
-                "<p>Monthly mean air temperatures, turned into surface temperatures by the n-factors (freezing {}, thawing {}); the monthly values are joined by a trigonometric series that keeps each month's mean.</p>\n<table><tr>",
-                n_factors.freezing, n_factors.thawing
-            );
-            for m in [
-                "Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec",
-            ] {
-                let _ = write!(h, "<th class=\"n\">{m}</th>");
-            }
-            let _ = write!(h, "</tr><tr>");
-            for a in air_c {
-                let _ = write!(h, "<td class=\"n\">{a:.1}</td>");
-            }
-            let _ = write!(h, "</tr></table><p class=\"meta\">°C, air</p>\n");
-        }
-        Climate::Series(s) => {
-            let _ = write!(
-                h,
-                "<p>Measured air temperatures from <code>{}</code>: {} records at {} h steps from day {} of {}; n-factors freezing {}, thawing {}. The undisturbed ground uses the mean year of the record.</p>\n",
-                esc(&s.source),
-                s.air_c.len(),
-                s.step_s / 3600.0,
-                s.start_day_of_year.floor(),
-                s.start_year,
-                s.n_factors.freezing,
-                s.n_factors.thawing
-            );
-        }
-        Climate::Constant { temperature_c } => {
-            let _ = write!(
-                h,
-                "<p>Ground surface held at {} from the start.</p>\n",
-                t(*temperature_c)
-            );
+/// A study's decisive figures, one line each: label, value and unit; "(found)" marks a value
+/// the study found (a length, a thickness, a cover).
+fn decisive_figures(figures: &[DecisiveFigure]) -> Markup {
+    html! {
+        @for (i, f) in figures.iter().enumerate() {
+            @if i > 0 { br; }
+            (f.label) " " (figure_value(f.value, &f.unit)) " " (f.unit)
+            @if f.sized { " (found)" }
         }
     }
-    let _ = write!(
-        h,
-        "<h3>Ground</h3>\n<p>Geothermal heat flux {}; initial temperature {}.</p>\n<table>\n<tr><th>layer</th><th class=\"n\">top</th><th class=\"n\">thickness</th><th class=\"n\">conductivity<br>unfrozen / frozen</th><th class=\"n\">heat capacity<br>unfrozen / frozen</th><th class=\"n\">water content</th><th class=\"n\">latent heat</th></tr>\n",
-        esc(&format_quantity(
-            site.ground.geothermal_flux_w_per_m2,
-            Dimension::HeatFlux
-        )),
-        match site.ground.initial_temperature_c {
-            Some(v) => t(v),
-            None => "the periodic undisturbed state".into(),
-        }
-    );
-    for (l, top) in site.ground.layers.iter().zip(site.ground.layer_tops_m()) {
-        let preset = l
-            .preset
-            .as_deref()
-            .map(|p| format!(" <span class=\"meta\">({})</span>", esc(p)))
-            .unwrap_or_default();
-        let _ = write!(
-            h,
-            "<tr><td>{}{preset}</td><td class=\"n\">{top:.2} m</td><td class=\"n\">{}</td><td class=\"n\">{:.2} / {:.2} W/(m K)</td><td class=\"n\">{:.2} / {:.2} MJ/(m3 K)</td><td class=\"n\">{:.0} %</td><td class=\"n\">{:.0} MJ/m3</td></tr>\n",
-            esc(&l.name),
-            l.thickness_m
-                .map(|t| format!("{t:.2} m"))
-                .unwrap_or_else(|| "to the bottom".into()),
-            l.conductivity_w_per_m_k,
-            l.frozen_conductivity_w_per_m_k,
-            l.heat_capacity_j_per_m3_k / 1e6,
-            l.frozen_heat_capacity_j_per_m3_k / 1e6,
-            l.water_content * 100.0,
-            l.latent_heat_j_per_m3 / 1e6
-        );
-    }
-    let _ = write!(h, "</table>\n");
 }
 
-fn ground(h: &mut String, r: &Results, figures: &[Figure]) {
-    let g = &r.ground;
-    let method = if g.profile_method == "closed-form" {
-        "the closed-form periodic solution for a homogeneous soil under a sinusoidal surface temperature (Carslaw &amp; Jaeger, <i>Conduction of Heat in Solids</i>, 1959, §2.6; Kusuda &amp; Achenbach 1965), plus the steady geothermal gradient".to_string()
+/// A study's checks as the study worded them, one line each; a failed one says so first.
+fn checks(checks: &[Check]) -> Markup {
+    html! {
+        @if checks.is_empty() {
+            "no limits set"
+        }
+        @for (i, c) in checks.iter().enumerate() {
+            @if i > 0 { br; }
+            @if !c.passed { span.fails { "FAILS: " } }
+            (c.message)
+        }
+    }
+}
+
+/// A decisive figure's value printed for its unit: temperatures and temperature differences to
+/// 0.1 K, anything else to three significant figures but at most three decimals (a millimetre
+/// of a length); whole digits are never rounded away.
+pub fn figure_value(value: f64, unit: &str) -> String {
+    if !value.is_finite() {
+        return "—".into();
+    }
+    let decimals = if matches!(unit, "°C" | "K") {
+        1
+    } else if value == 0.0 {
+        0
     } else {
-        format!(
-            "a 1-D periodic finite-volume solution through the soil layers, with the latent heat of the soil water released over its freezing interval (enthalpy formulation), repeated until the year repeats itself ({} years of spin-up; energy balance error {:.1e})",
-            g.spin_up_years,
-            g.energy_balance_relative_error.unwrap_or(0.0)
-        )
+        (2 - value.abs().log10().floor() as i32).clamp(0, 3) as usize
     };
-    let _ = write!(
-        h,
-        "<h2 id=\"ground\">Undisturbed ground</h2>\n<p>Found by {method}.</p>\n"
-    );
-    figure_list(h, figures);
-    let _ = write!(
-        h,
-        "<table>\n<tr><th class=\"n\">depth</th><th class=\"n\">mean</th><th class=\"n\">lowest</th><th class=\"n\">highest</th></tr>\n"
-    );
-    for row in g.profile.iter().filter(|p| is_listed_depth(p.depth_m)) {
-        let _ = write!(
-            h,
-            "<tr><td class=\"n\">{:.2} m</td><td class=\"n\">{:.2} °C</td><td class=\"n\">{:.2} °C</td><td class=\"n\">{:.2} °C</td></tr>\n",
-            row.depth_m, row.mean_c, row.min_c, row.max_c
-        );
-    }
-    let _ = write!(
-        h,
-        "</table>\n<p class=\"meta\">Every 0.25 m in <code>ground-profile.csv</code>.</p>\n"
-    );
-}
-
-fn figure_list(h: &mut String, figures: &[Figure]) {
-    for f in figures {
-        let _ = write!(
-            h,
-            "<figure id=\"fig-{}\">\n{}\n<figcaption>{}</figcaption>\n</figure>\n",
-            esc(&f.stem),
-            strip_xml_declaration(&f.rendered.svg),
-            esc(&f.caption)
-        );
+    let text = format!("{value:.decimals$}");
+    // A value that rounds to zero is printed without a sign.
+    match text.strip_prefix('-') {
+        Some(rest) if rest.chars().all(|c| c == '0' || c == '.') => rest.to_string(),
+        _ => text,
     }
 }
 
-/// One section per study: its method, figures and key results.
-fn studies(h: &mut String, r: &Results, site: &Site, figures: &[Vec<Figure>]) {
-    for (s, figs) in r.studies.iter().zip(figures) {
-        let _ = write!(
-            h,
-            "<section class=\"study\" id=\"study-{}\">\n<h2>Study {} <span class=\"meta\">({}, {} method)</span></h2>\n",
-            esc(&s.id),
-            esc(&s.id),
-            esc(&s.kind),
-            esc(&s.method)
-        );
-        if let Some(e) = site
-            .studies
-            .iter()
-            .find(|m| m.id == s.id)
-            .and_then(|m| m.echo.as_ref())
-        {
-            let _ = write!(
-                h,
-                "<details open class=\"echo\"><summary>Inputs as written (site file, lines {}–{})</summary>\n<pre>{}</pre>\n</details>\n",
-                e.first_line,
-                e.last_line,
-                esc(&e.text)
-            );
+fn inputs(site: &Site) -> Markup {
+    let t = |v| format_quantity(v, Dimension::Temperature);
+    html! {
+        h2 #inputs { "Inputs" }
+        h3 { "Climate" }
+        @match &site.climate {
+            Climate::AnnualWave { mean_c, amplitude_k, coldest_day } => {
+                p {
+                    "Annual sinusoidal wave of the ground-surface temperature: mean " (t(*mean_c))
+                    ", amplitude " (format_quantity(*amplitude_k, Dimension::TemperatureDifference))
+                    ", coldest on day " (coldest_day) " of the year."
+                }
+            }
+            Climate::MonthlyAir { air_c, n_factors } => {
+                p {
+                    "Monthly mean air temperatures, turned into surface temperatures by the n-factors (freezing "
+                    (n_factors.freezing) ", thawing " (n_factors.thawing)
+                    "); the monthly values are joined by a trigonometric series that keeps each month's mean."
+                }
+                table {
+                    tr {
+                        @for m in ["Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec"] {
+                            th.n { (m) }
+                        }
+                    }
+                    tr {
+                        @for a in air_c {
+                            td.n { (format!("{a:.1}")) }
+                        }
+                    }
+                }
+                p.meta { "°C, air" }
+            }
+            Climate::Series(s) => {
+                p {
+                    "Measured air temperatures from " code { (s.source) } ": " (s.air_c.len())
+                    " records at " (s.step_s / 3600.0) " h steps from day " (s.start_day_of_year.floor())
+                    " of " (s.start_year) "; n-factors freezing " (s.n_factors.freezing)
+                    ", thawing " (s.n_factors.thawing)
+                    ". The undisturbed ground uses the mean year of the record."
+                }
+            }
+            Climate::Constant { temperature_c } => {
+                p { "Ground surface held at " (t(*temperature_c)) " from the start." }
+            }
         }
-        s.figures.section(h);
-        figure_list(h, figs);
-        let _ = write!(h, "</section>\n");
+        h3 { "Ground" }
+        p {
+            "Geothermal heat flux "
+            (format_quantity(site.ground.geothermal_flux_w_per_m2, Dimension::HeatFlux))
+            "; initial temperature "
+            @match site.ground.initial_temperature_c {
+                Some(v) => (t(v)),
+                None => "the periodic undisturbed state",
+            }
+            "."
+        }
+        table {
+            tr {
+                th { "layer" }
+                th.n { "top" }
+                th.n { "thickness" }
+                th.n { "conductivity" br; "unfrozen / frozen" }
+                th.n { "heat capacity" br; "unfrozen / frozen" }
+                th.n { "water content" }
+                th.n { "latent heat" }
+            }
+            @for (l, top) in site.ground.layers.iter().zip(site.ground.layer_tops_m()) {
+                tr {
+                    td {
+                        (l.name)
+                        @if let Some(p) = &l.preset {
+                            " " span.meta { "(" (p) ")" }
+                        }
+                    }
+                    td.n { (format!("{top:.2} m")) }
+                    td.n {
+                        @match l.thickness_m {
+                            Some(t) => (format!("{t:.2} m")),
+                            None => "to the bottom",
+                        }
+                    }
+                    td.n { (format!("{:.2} / {:.2} W/(m K)", l.conductivity_w_per_m_k, l.frozen_conductivity_w_per_m_k)) }
+                    td.n {
+                        (format!(
+                            "{:.2} / {:.2} MJ/(m3 K)",
+                            l.heat_capacity_j_per_m3_k / 1e6,
+                            l.frozen_heat_capacity_j_per_m3_k / 1e6
+                        ))
+                    }
+                    td.n { (format!("{:.0} %", l.water_content * 100.0)) }
+                    td.n { (format!("{:.0} MJ/m3", l.latent_heat_j_per_m3 / 1e6)) }
+                }
+            }
+        }
+    }
+}
+
+fn ground(r: &Results, figures: &[Figure]) -> Markup {
+    let g = &r.ground;
+    html! {
+        h2 #ground { "Undisturbed ground" }
+        p {
+            "Found by "
+            @if g.profile_method == "closed-form" {
+                "the closed-form periodic solution for a homogeneous soil under a sinusoidal surface temperature (Carslaw & Jaeger, "
+                i { "Conduction of Heat in Solids" }
+                ", 1959, §2.6; Kusuda & Achenbach 1965), plus the steady geothermal gradient"
+            } @else {
+                (format!(
+                    "a 1-D periodic finite-volume solution through the soil layers, with the latent heat of the soil water released over its freezing interval (enthalpy formulation), repeated until the year repeats itself ({} years of spin-up; energy balance error {:.1e})",
+                    g.spin_up_years,
+                    g.energy_balance_relative_error.unwrap_or(0.0)
+                ))
+            }
+            "."
+        }
+        (figure_list(figures))
+        table {
+            tr { th.n { "depth" } th.n { "mean" } th.n { "lowest" } th.n { "highest" } }
+            @for row in g.profile.iter().filter(|p| is_listed_depth(p.depth_m)) {
+                tr {
+                    td.n { (format!("{:.2} m", row.depth_m)) }
+                    td.n { (format!("{:.2} °C", row.mean_c)) }
+                    td.n { (format!("{:.2} °C", row.min_c)) }
+                    td.n { (format!("{:.2} °C", row.max_c)) }
+                }
+            }
+        }
+        p.meta { "Every 0.25 m in " code { "ground-profile.csv" } "." }
+    }
+}
+
+fn figure_list(figures: &[Figure]) -> Markup {
+    html! {
+        @for f in figures {
+            figure id={ "fig-" (f.stem) } {
+                // The SVG comes from our own plot renderer (report::plot), which escapes every
+                // text it draws; it goes into the page as it is.
+                (PreEscaped(strip_xml_declaration(&f.rendered.svg)))
+                figcaption { (f.caption) }
+            }
+        }
+    }
+}
+
+/// One section per study: its inputs as written, the kind's own section, the assumptions the
+/// study used, and its figures.
+fn studies(r: &Results, site: &Site, figures: &[Vec<Figure>]) -> Markup {
+    html! {
+        @for (s, figs) in r.studies.iter().zip(figures) {
+            section.study id={ "study-" (s.id) } {
+                h2 { "Study " (s.id) " " span.meta { "(" (s.kind) ", " (s.method) " method)" } }
+                @if let Some(e) = site.studies.iter().find(|m| m.id == s.id).and_then(|m| m.echo.as_ref()) {
+                    details.echo open {
+                        summary { "Inputs as written (site file, lines " (e.first_line) "–" (e.last_line) ")" }
+                        pre { (e.text) }
+                    }
+                }
+                (s.figures.section())
+                (assumptions(&s.assumptions))
+                (figure_list(figs))
+            }
+        }
+    }
+}
+
+/// The constants, tolerances and defaults a study used, with their sources.
+fn assumptions(assumptions: &[Assumption]) -> Markup {
+    html! {
+        @if !assumptions.is_empty() {
+            h4 { "Assumptions" }
+            table.assumptions {
+                tr { th { "assumption" } th.n { "value" } th { "unit" } th { "source" } }
+                @for a in assumptions {
+                    tr {
+                        td { (a.name) }
+                        td.n { (a.value) }
+                        td { (a.unit) }
+                        td { (a.source) }
+                    }
+                }
+            }
+        }
     }
 }
 
@@ -517,13 +505,130 @@ pub fn surface_plot(r: &Results) -> LinePlot {
 
 #[cfg(test)]
 mod tests {
-    use super::esc;
+    use super::*;
+    use crate::results::Worse;
+
+    fn check(passed: bool, message: &str) -> Check {
+        Check {
+            code: "kind.rule".into(),
+            passed,
+            value: Some(1.0),
+            limit: Some(2.0),
+            unit: "m".into(),
+            message: message.into(),
+        }
+    }
 
     #[test]
-    fn markup_in_user_text_is_escaped() {
+    fn checks_are_shown_as_the_study_worded_them_and_a_failed_one_says_so() {
+        let html = checks(&[
+            check(true, "cover 1.2 m meets 1.0 m"),
+            check(false, "fluid <0 °C>"),
+        ])
+        .into_string();
         assert_eq!(
-            esc("<b>\"A&B's\"</b>"),
-            "&lt;b&gt;&quot;A&amp;B&#39;s&quot;&lt;/b&gt;"
+            html,
+            "cover 1.2 m meets 1.0 m<br><span class=\"fails\">FAILS: </span>fluid &lt;0 °C&gt;"
+        );
+        assert_eq!(checks(&[]).into_string(), "no limits set");
+    }
+
+    #[test]
+    fn decisive_figures_give_label_value_unit_and_mark_what_the_study_found() {
+        let figures = [
+            DecisiveFigure::new("a_m", 1.2345, "m", "frost depth", Worse::Higher),
+            DecisiveFigure::new("b_m", 112.04, "m", "active length", Worse::Higher).sized(),
+            DecisiveFigure::new("c_c", -2.04, "°C", "coldest <fluid>", Worse::Lower),
+        ];
+        assert_eq!(
+            decisive_figures(&figures).into_string(),
+            "frost depth 1.23 m<br>active length 112 m (found)<br>coldest &lt;fluid&gt; -2.0 °C"
+        );
+    }
+
+    #[test]
+    fn figure_values_keep_three_significant_figures_and_temperatures_a_tenth_of_a_kelvin() {
+        assert_eq!(figure_value(0.075, "m"), "0.075");
+        assert_eq!(figure_value(0.04364, "m"), "0.044");
+        assert_eq!(figure_value(3.8e-18, "m"), "0.000");
+        assert_eq!(figure_value(-0.02, "°C"), "0.0");
+        assert_eq!(figure_value(1.5, "m"), "1.50");
+        assert_eq!(figure_value(23.456, "W/m"), "23.5");
+        assert_eq!(figure_value(-12.02, "W/m"), "-12.0");
+        assert_eq!(figure_value(1234.56, "m"), "1235");
+        assert_eq!(figure_value(0.0, "l/min"), "0");
+        assert_eq!(figure_value(4.0, "°C"), "4.0");
+        assert_eq!(figure_value(-0.26, "K"), "-0.3");
+        assert_eq!(figure_value(f64::NAN, "m"), "—");
+    }
+
+    #[test]
+    fn failed_studies_are_listed_with_their_reason_escaped() {
+        let failed = [StudyFailure {
+            id: "<b>field</b>".into(),
+            kind: "borefield".into(),
+            reason: "no length in 20–400 m keeps the fluid above <limit>".into(),
+        }];
+        let html = failed_studies(&failed).into_string();
+        assert!(html.contains("id=\"failed-studies\""), "{html}");
+        assert!(
+            html.contains("<code>&lt;b&gt;field&lt;/b&gt;</code> (borefield)"),
+            "{html}"
+        );
+        assert!(html.contains("above &lt;limit&gt;"), "{html}");
+        assert_eq!(failed_studies(&[]).into_string(), "");
+    }
+
+    #[test]
+    fn a_failed_study_has_its_row_in_the_summary_with_its_reason() {
+        let results = Results {
+            tool: crate::results::Tool {
+                name: "burrow".into(),
+                version: "0".into(),
+            },
+            site: crate::results::SiteInfo {
+                name: "site".into(),
+                description: None,
+                input_file: "site.yaml".into(),
+                input_sha256: String::new(),
+            },
+            ground: crate::results::GroundResults {
+                profile: Vec::new(),
+                profile_method: "closed-form".into(),
+                surface_daily_c: vec![0.0],
+                surface_mean_c: 0.0,
+                max_frost_depth_m: 0.0,
+                spin_up_years: 0,
+                energy_balance_relative_error: None,
+            },
+            studies: Vec::new(),
+            failed_studies: vec![StudyFailure {
+                id: "field".into(),
+                kind: "borefield".into(),
+                reason: "no length in 20–400 m meets the lower limit".into(),
+            }],
+            warnings: Vec::new(),
+        };
+        let html = summary(&results).into_string();
+        assert!(
+            html.contains("<tr><td>field (borefield)</td><td colspan=\"2\"><span class=\"fails\">failed: </span>no length in 20–400 m meets the lower limit</td></tr>"),
+            "{html}"
+        );
+    }
+
+    #[test]
+    fn assumptions_are_a_table_only_when_the_study_used_some() {
+        assert_eq!(assumptions(&[]).into_string(), "");
+        let html = assumptions(&[Assumption {
+            name: "U-bend loss".into(),
+            value: 1.5,
+            unit: "velocity heads".into(),
+            source: "common practice, no source".into(),
+        }])
+        .into_string();
+        assert!(
+            html.contains("<td>U-bend loss</td><td class=\"n\">1.5</td><td>velocity heads</td><td>common practice, no source</td>"),
+            "{html}"
         );
     }
 }

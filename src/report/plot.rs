@@ -1255,22 +1255,10 @@ pub fn chain_segments(segs: &[Segment]) -> Vec<Vec<(f64, f64)>> {
     lines
 }
 
-/// Standard base64 (RFC 4648, section 4) with padding.
+/// Standard base64 (RFC 4648, section 4) with padding, for the PNG data URI of a field raster.
 fn base64(bytes: &[u8]) -> String {
-    const ABC: &[u8; 64] = b"ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz0123456789+/";
-    let mut out = String::with_capacity(bytes.len().div_ceil(3) * 4);
-    for chunk in bytes.chunks(3) {
-        let b = [chunk[0], *chunk.get(1).unwrap_or(&0), *chunk.get(2).unwrap_or(&0)];
-        let n = (u32::from(b[0]) << 16) | (u32::from(b[1]) << 8) | u32::from(b[2]);
-        for k in 0..4 {
-            if k <= chunk.len() {
-                out.push(ABC[((n >> (18 - 6 * k)) & 63) as usize] as char);
-            } else {
-                out.push('=');
-            }
-        }
-    }
-    out
+    use base64::Engine as _;
+    base64::engine::general_purpose::STANDARD.encode(bytes)
 }
 
 /// Placeholder colour of the raster rectangle in the SVG, replaced by the embedded image.

@@ -1,13 +1,10 @@
 //! Report section, plots and CSV of a `borefield` study.
 
-// HTML is written line by line; a trailing `\n` in `write!` keeps the markup readable.
-#![allow(clippy::write_with_newline)]
-
 use super::BorefieldResult;
 use crate::report::Figure;
-use crate::report::html::esc;
 use crate::report::plot::{Band, LinePlot, Series, SeriesStyle, render_line_plot};
 use crate::results::StudyResult;
+use maud::{Markup, html};
 use std::fmt::Write;
 
 const MONTH_NAMES: [&str; 12] = [
@@ -145,143 +142,118 @@ pub fn figures(s: &StudyResult, b: &BorefieldResult) -> Result<Vec<Figure>, Stri
     Ok(vec![life, first_last, g])
 }
 
-pub fn section(h: &mut String, b: &BorefieldResult) {
-    let _ = write!(
-        h,
-        "<p>Method: g-function of the field from finite line sources with spatial superposition ({}; Claesson &amp; Javed 2011, Cimmino &amp; Bernier 2014), borehole resistance by the multipole method (Claesson &amp; Hellström 2011) with Hellström's (1991) short-circuit correction, and temporal superposition of the ground loads over the design life. Ground properties are the thickness-weighted means of the layers along the boreholes; the undisturbed temperature is the annual-mean profile averaged over the active length. Fluid properties are taken at the lower fluid limit.</p>\n",
-        esc(&b.wall_condition)
-    );
-    let row = |h: &mut String, label: &str, value: String| {
-        let _ = write!(h, "<tr><td>{}</td><td class=\"n\">{}</td></tr>\n", label, value);
-    };
-    let _ = write!(h, "<table>\n<tr><th>figure</th><th class=\"n\">value</th></tr>\n");
-    row(h, "Layout", esc(&b.layout));
-    row(
-        h,
-        "<b>Active length per borehole</b> (top at depth)",
-        format!("<b>{:.1} m</b> ({:.1} m)", b.active_length_m, b.top_depth_m),
-    );
-    row(h, "Total active length", format!("{:.0} m", b.total_length_m));
-    row(
-        h,
-        "Ground conductivity; diffusivity; undisturbed temperature",
-        format!(
-            "{:.2} W/(m K) ({}); {:.2e} m²/s; {:.2} °C",
-            b.ground.conductivity_w_per_m_k,
-            esc(&b.ground.conductivity_source),
-            b.ground.diffusivity_m2_per_s,
-            b.ground.undisturbed_c
-        ),
-    );
-    row(
-        h,
-        "Effective borehole resistance R_b*",
-        format!(
-            "{:.4} m K/W ({})",
-            b.borehole_resistance_m_k_per_w,
-            esc(&b.borehole_resistance_source)
-        ),
-    );
-    if let (Some(rb), Some(ra)) = (
-        b.local_borehole_resistance_m_k_per_w,
-        b.internal_resistance_m_k_per_w,
-    ) {
-        row(
-            h,
-            "Local R_b; internal R_a",
-            format!("{rb:.4} m K/W; {ra:.4} m K/W"),
-        );
-    }
-    row(
-        h,
-        "Fluid; freezing point",
-        format!(
-            "{} {:.0} %; {:.1} °C",
-            esc(&b.fluid.mixture),
-            b.fluid.mass_fraction * 100.0,
-            b.fluid_freezing_point_c
-        ),
-    );
-    row(
-        h,
-        "Flow per borehole; Reynolds number (coldest fluid)",
-        format!(
-            "{:.3} l/s; {:.0} ({})",
-            b.fluid.flow_per_borehole_l_per_s,
-            b.fluid.reynolds,
-            esc(&b.fluid.flow_regime)
-        ),
-    );
-    row(
-        h,
-        "Ground loads per year: extracted; injected",
-        format!(
-            "{:.1} MWh; {:.1} MWh",
-            b.annual_loads.extracted_mwh, b.annual_loads.injected_mwh
-        ),
-    );
+pub fn section(b: &BorefieldResult) -> Markup {
     let t = &b.fluid_temperature;
-    row(
-        h,
-        "Mean fluid temperature, lowest / highest over the design life",
-        format!("{:.2} °C / {:.2} °C", t.min_c, t.max_c),
-    );
-    row(
-        h,
-        "first year; last year",
-        format!(
-            "{:.2} / {:.2} °C; {:.2} / {:.2} °C",
-            t.first_year_min_c, t.first_year_max_c, t.last_year_min_c, t.last_year_max_c
-        ),
-    );
-    row(
-        h,
-        "Limits on the mean fluid temperature",
-        format!("{} °C to {} °C", b.limits.min_fluid_c, b.limits.max_fluid_c),
-    );
-    row(
-        h,
-        "Coldest fluid (field inlet at the extraction peak); warmest",
-        format!("{:.2} °C; {:.2} °C", b.coldest_fluid_c, b.warmest_fluid_c),
-    );
-    row(
-        h,
-        "Drift of the yearly mean borehole-wall temperature, first to last year",
-        format!("{:+.2} K", b.ground_temperature_drift_k),
-    );
-    row(
-        h,
-        "Pressure drop of one borehole loop; pump power of the field (loops only)",
-        format!("{:.1} kPa; {:.0} W", b.pressure_drop_kpa, b.pumping_power_w),
-    );
-    let _ = write!(h, "</table>\n");
-    if let (Some(s), Some(g)) = (&b.sizing, &b.governing_limit) {
-        let governing = match g.as_str() {
-            "min_fluid" => "the lower limit governs",
-            "max_fluid" => "the upper limit governs",
-            _ => "the shortest length searched already meets both limits",
-        };
-        let _ = write!(
-            h,
-            "<p><b>Sizing:</b> the shortest active length in {:.0}–{:.0} m that keeps the mean fluid temperature within its limits is <b>{:.1} m</b> per borehole; {}. Length needed for the lower limit {:.1} m, for the upper limit {:.1} m. The g-function was computed at {} and interpolated in ln H; the figures above use the g-function computed at the sized length.</p>\n",
-            s.range_m[0],
-            s.range_m[1],
-            b.active_length_m,
-            governing,
-            s.length_for_min_fluid_m,
-            s.length_for_max_fluid_m,
-            s.g_function_lengths_m
-                .iter()
-                .map(|l| format!("{l:.0} m"))
-                .collect::<Vec<_>>()
-                .join(", ")
-        );
+    html! {
+        p {
+            "Method: g-function of the field from finite line sources with spatial superposition (" (b.wall_condition)
+            "; Claesson & Javed 2011, Cimmino & Bernier 2014), borehole resistance by the multipole method (Claesson & Hellström 2011) with Hellström's (1991) short-circuit correction, and temporal superposition of the ground loads over the design life. Ground properties are the thickness-weighted means of the layers along the boreholes; the undisturbed temperature is the annual-mean profile averaged over the active length. Fluid properties are taken at the lower fluid limit."
+        }
+        table {
+            tr { th { "figure" } th.n { "value" } }
+            (row(html! { "Layout" }, html! { (b.layout) }))
+            (row(
+                html! { b { "Active length per borehole" } " (top at depth)" },
+                html! { b { (format!("{:.1} m", b.active_length_m)) } (format!(" ({:.1} m)", b.top_depth_m)) },
+            ))
+            (row(html! { "Total active length" }, html! { (format!("{:.0} m", b.total_length_m)) }))
+            (row(
+                html! { "Ground conductivity; diffusivity; undisturbed temperature" },
+                html! {
+                    (format!("{:.2} W/(m K) (", b.ground.conductivity_w_per_m_k))
+                    (b.ground.conductivity_source)
+                    (format!("); {:.2e} m²/s; {:.2} °C", b.ground.diffusivity_m2_per_s, b.ground.undisturbed_c))
+                },
+            ))
+            (row(
+                html! { "Effective borehole resistance R_b*" },
+                html! { (format!("{:.4} m K/W (", b.borehole_resistance_m_k_per_w)) (b.borehole_resistance_source) ")" },
+            ))
+            @if let (Some(rb), Some(ra)) = (b.local_borehole_resistance_m_k_per_w, b.internal_resistance_m_k_per_w) {
+                (row(html! { "Local R_b; internal R_a" }, html! { (format!("{rb:.4} m K/W; {ra:.4} m K/W")) }))
+            }
+            (row(
+                html! { "Fluid; freezing point" },
+                html! {
+                    (b.fluid.mixture)
+                    (format!(" {:.0} %; {:.1} °C", b.fluid.mass_fraction * 100.0, b.fluid_freezing_point_c))
+                },
+            ))
+            (row(
+                html! { "Flow per borehole; Reynolds number (coldest fluid)" },
+                html! {
+                    (format!("{:.3} l/s; {:.0} (", b.fluid.flow_per_borehole_l_per_s, b.fluid.reynolds))
+                    (b.fluid.flow_regime)
+                    ")"
+                },
+            ))
+            (row(
+                html! { "Ground loads per year: extracted; injected" },
+                html! { (format!("{:.1} MWh; {:.1} MWh", b.annual_loads.extracted_mwh, b.annual_loads.injected_mwh)) },
+            ))
+            (row(
+                html! { "Mean fluid temperature, lowest / highest over the design life" },
+                html! { (format!("{:.2} °C / {:.2} °C", t.min_c, t.max_c)) },
+            ))
+            (row(
+                html! { "first year; last year" },
+                html! {
+                    (format!(
+                        "{:.2} / {:.2} °C; {:.2} / {:.2} °C",
+                        t.first_year_min_c, t.first_year_max_c, t.last_year_min_c, t.last_year_max_c
+                    ))
+                },
+            ))
+            (row(
+                html! { "Limits on the mean fluid temperature" },
+                html! { (format!("{} °C to {} °C", b.limits.min_fluid_c, b.limits.max_fluid_c)) },
+            ))
+            (row(
+                html! { "Coldest fluid (field inlet at the extraction peak); warmest" },
+                html! { (format!("{:.2} °C; {:.2} °C", b.coldest_fluid_c, b.warmest_fluid_c)) },
+            ))
+            (row(
+                html! { "Drift of the yearly mean borehole-wall temperature, first to last year" },
+                html! { (format!("{:+.2} K", b.ground_temperature_drift_k)) },
+            ))
+            (row(
+                html! { "Pressure drop of one borehole loop; pump power of the field (loops only)" },
+                html! { (format!("{:.1} kPa; {:.0} W", b.pressure_drop_kpa, b.pumping_power_w)) },
+            ))
+        }
+        @if let (Some(s), Some(g)) = (&b.sizing, &b.governing_limit) {
+            p {
+                b { "Sizing:" }
+                (format!(
+                    " the shortest active length in {:.0}–{:.0} m that keeps the mean fluid temperature within its limits is ",
+                    s.range_m[0], s.range_m[1]
+                ))
+                b { (format!("{:.1} m", b.active_length_m)) }
+                " per borehole; "
+                @match g.as_str() {
+                    "min_fluid" => "the lower limit governs",
+                    "max_fluid" => "the upper limit governs",
+                    _ => "the shortest length searched already meets both limits",
+                }
+                (format!(
+                    ". Length needed for the lower limit {:.1} m, for the upper limit {:.1} m. The g-function was computed at {} and interpolated in ln H; the figures above use the g-function computed at the sized length.",
+                    s.length_for_min_fluid_m,
+                    s.length_for_max_fluid_m,
+                    s.g_function_lengths_m.iter().map(|l| format!("{l:.0} m")).collect::<Vec<_>>().join(", ")
+                ))
+            }
+        }
+        p.meta {
+            "Months are twelve equal parts of a 365-day year (730 h). Pressure drop: Darcy–Weisbach with Colebrook's friction factor over the loop from the surface to the foot and back, plus the loss of the U-bend at the foot; headers, manifolds and the heat pump are not included."
+        }
     }
-    let _ = write!(
-        h,
-        "<p class=\"meta\">Months are twelve equal parts of a 365-day year (730 h). Pressure drop: Darcy–Weisbach with Colebrook's friction factor over the loop from the surface to the foot and back, plus {} velocity heads at the foot; headers, manifolds and the heat pump are not included.</p>\n",
-        crate::physics::pipe_flow::U_BEND_LOSS_COEFFICIENT
-    );
+}
+
+/// One row of the figure table: its label and its value.
+fn row(label: Markup, value: Markup) -> Markup {
+    html! {
+        tr { td { (label) } td.n { (value) } }
+    }
 }
 
 /// `<id>-fluid.csv`: one row per month of the design life.

@@ -1,16 +1,13 @@
 //! Report section, plots and CSV of a `cross-section` study.
 
-// HTML is written line by line; a trailing `\n` in `write!` keeps the markup readable.
-#![allow(clippy::write_with_newline)]
-
 use super::CrossSectionResult;
 use crate::report::Figure;
-use crate::report::html::esc;
 use crate::report::plot::isotherm_levels;
 use crate::report::plot::{
     ArrowLayer, FieldPlot, LinePlot, Series, SeriesStyle, render_field_plot_with_arrows, render_line_plot,
 };
 use crate::results::StudyResult;
+use maud::{Markup, html};
 use std::fmt::Write;
 
 pub fn figures(s: &StudyResult, c: &CrossSectionResult) -> Result<Vec<Figure>, String> {
@@ -132,53 +129,48 @@ pub fn figures(s: &StudyResult, c: &CrossSectionResult) -> Result<Vec<Figure>, S
     Ok(out)
 }
 
-pub fn section(h: &mut String, c: &CrossSectionResult) {
-    let _ = write!(
-        h,
-        "<p>Method: finite volumes on a graded rectilinear grid of {} cells (harmonic-mean face conductances; layer and inclusion edges on cell faces); {}; latent heat of the soil water by an energy-conserving enthalpy formulation; pipes cut out at their true radius (or coupled by a Peaceman well index when smaller than a cell) with their wall layers as an analytic resistance. Energy balance error {:.1e}.</p>\n",
-        c.cells,
-        if c.steady {
-            "the steady state of the annual-mean surface and fluid temperatures"
-        } else {
-            "implicit (backward Euler) time steps"
-        },
-        c.energy_balance_relative_error
-    );
-    if !c.pipes.is_empty() {
-        let _ = write!(
-            h,
-            "<table>\n<tr><th>pipe</th><th class=\"n\">mean heat to ground</th><th class=\"n\">final</th></tr>\n"
-        );
-        for p in &c.pipes {
-            let _ = write!(
-                h,
-                "<tr><td>{}</td><td class=\"n\">{:.2} W/m</td><td class=\"n\">{:.2} W/m</td></tr>\n",
-                esc(&p.id),
-                p.mean_heat_rate_w_per_m,
-                p.final_heat_rate_w_per_m
-            );
+pub fn section(c: &CrossSectionResult) -> Markup {
+    html! {
+        p {
+            "Method: finite volumes on a graded rectilinear grid of " (c.cells)
+            " cells (harmonic-mean face conductances; layer and inclusion edges on cell faces); "
+            @if c.steady {
+                "the steady state of the annual-mean surface and fluid temperatures"
+            } @else {
+                "implicit (backward Euler) time steps"
+            }
+            "; latent heat of the soil water by an energy-conserving enthalpy formulation; pipes cut out at their true radius (or coupled by a Peaceman well index when smaller than a cell) with their wall layers as an analytic resistance. Energy balance error "
+            (format!("{:.1e}", c.energy_balance_relative_error))
+            "."
         }
-        let _ = write!(h, "</table>\n");
-    }
-    if !c.probes.is_empty() {
-        let _ = write!(
-            h,
-            "<table>\n<tr><th>probe</th><th class=\"n\">lowest</th><th class=\"n\">highest</th><th class=\"n\">final</th></tr>\n"
-        );
-        for p in &c.probes {
-            let _ = write!(
-                h,
-                "<tr><td>{}</td><td class=\"n\">{:.2} °C</td><td class=\"n\">{:.2} °C</td><td class=\"n\">{:.2} °C</td></tr>\n",
-                esc(&p.id),
-                p.min_c,
-                p.max_c,
-                p.final_c
-            );
+        @if !c.pipes.is_empty() {
+            table {
+                tr { th { "pipe" } th.n { "mean heat to ground" } th.n { "final" } }
+                @for p in &c.pipes {
+                    tr {
+                        td { (p.id) }
+                        td.n { (format!("{:.2} W/m", p.mean_heat_rate_w_per_m)) }
+                        td.n { (format!("{:.2} W/m", p.final_heat_rate_w_per_m)) }
+                    }
+                }
+            }
         }
-        let _ = write!(h, "</table>\n");
-    }
-    if let Some(f) = c.max_frost_depth_m {
-        let _ = write!(h, "<p>Deepest frost at the section's edge: {f:.2} m.</p>\n");
+        @if !c.probes.is_empty() {
+            table {
+                tr { th { "probe" } th.n { "lowest" } th.n { "highest" } th.n { "final" } }
+                @for p in &c.probes {
+                    tr {
+                        td { (p.id) }
+                        td.n { (format!("{:.2} °C", p.min_c)) }
+                        td.n { (format!("{:.2} °C", p.max_c)) }
+                        td.n { (format!("{:.2} °C", p.final_c)) }
+                    }
+                }
+            }
+        }
+        @if let Some(f) = c.max_frost_depth_m {
+            p { (format!("Deepest frost at the section's edge: {f:.2} m.")) }
+        }
     }
 }
 

@@ -116,8 +116,8 @@ impl Kind for FrostKind {
         report::figures(study, r)
     }
 
-    fn section(r: &Self::Result, out: &mut String) {
-        report::section(out, r)
+    fn section(r: &Self::Result) -> maud::Markup {
+        report::section(r)
     }
 
     fn csv_files(study: &StudyResult, r: &Self::Result) -> Vec<(String, String)> {

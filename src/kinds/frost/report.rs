@@ -1,14 +1,11 @@
 //! Report section, plots and CSV of a `frost` study.
 
-// HTML is written line by line; a trailing `\n` in `write!` keeps the markup readable.
-#![allow(clippy::write_with_newline)]
-
 use super::FrostResult;
 use crate::report::Figure;
-use crate::report::html::esc;
 use crate::report::plot::isotherm_levels;
 use crate::report::plot::{FieldPlot, LinePlot, Series, SeriesStyle, render_field_plot, render_line_plot};
 use crate::results::StudyResult;
+use maud::{Markup, html};
 use std::fmt::Write;
 
 pub fn figures(s: &StudyResult, f: &FrostResult) -> Result<Vec<Figure>, String> {
@@ -146,132 +143,158 @@ pub fn figures(s: &StudyResult, f: &FrostResult) -> Result<Vec<Figure>, String> 
     Ok(out)
 }
 
-pub fn section(h: &mut String, f: &FrostResult) {
-    let _ = write!(
-        h,
-        "<p>Method: the design surface freezing index ({}) drives Stefan's formula, summed layer by layer, and the modified Berggren equation, whose coefficient λ comes from the Neumann two-phase relation behind Aldrich &amp; Paynter's (1953) chart (US Army/Air Force TM 5-852-6). Stefan neglects the soil's sensible heat and is shown as an upper bound; the deeper of the modified Berggren and the numerical depth governs.</p>\n",
-        esc(&f.design_index_basis)
-    );
-    if let Some(n) = &f.numerical {
-        let _ = write!(
-            h,
-            "<p>Numerical: burrow's finite-volume engine runs the section with the main in place (water at its monthly temperatures) from the periodic undisturbed ground through {} spin-up years of the typical year and then the design season, whose below-zero surface temperatures are scaled by {:.3} to give the design freezing index. Latent heat of the soil water is released between 0 °C and the layer's freezing interval below it; the frost depth is the 0 °C isotherm (first ice) at the section's edge, away from the pipe, so it lies somewhat deeper than a sharp-front formula's.</p>\n",
-            n.spin_up_years, n.winter_scale
-        );
-    }
-    let opt = |v: Option<f64>, unit: &str| v.map(|x| format!("{x:.2} {unit}")).unwrap_or_else(|| "—".into());
-    let _ = write!(
-        h,
-        "<table>\n<tr><th>figure</th><th class=\"n\">value</th></tr>\n\
-<tr><td>Design surface freezing index</td><td class=\"n\">{:.0} °C·d</td></tr>\n\
-<tr><td>Air freezing index</td><td class=\"n\">{}</td></tr>\n\
-<tr><td>Mean annual surface temperature; freezing season</td><td class=\"n\">{:.2} °C; {:.0} days</td></tr>\n\
-<tr><td>Frost depth, Stefan (upper bound)</td><td class=\"n\">{}</td></tr>\n\
-<tr><td>Frost depth, modified Berggren</td><td class=\"n\">{}</td></tr>\n\
-<tr><td>Frost depth, numerical (engine, free field, 0 °C isotherm)</td><td class=\"n\">{}</td></tr>\n\
-<tr><td><b>Governing frost depth</b></td><td class=\"n\"><b>{:.2} m</b></td></tr>\n",
-        f.design_freezing_index_c_days,
-        opt(f.air_freezing_index_c_days, "°C·d"),
-        f.mean_annual_surface_c,
-        f.freezing_season_days,
-        opt(f.frost_depth_m.stefan, "m"),
-        opt(f.frost_depth_m.berggren, "m"),
-        f.frost_depth_m
-            .numerical
-            .map(|x| format!("{x:.2} m"))
-            .unwrap_or_else(|| "not run".into()),
-        f.max_frost_depth_m
-    );
-    if let Some(b) = &f.berggren {
-        let _ = write!(
-            h,
-            "<tr><td>Berggren λ (thermal ratio α, fusion parameter μ)</td><td class=\"n\">{:.3} ({:.2}, {:.3})</td></tr>\n",
-            b.lambda, b.thermal_ratio, b.fusion_parameter
-        );
-    }
-    if let Some(reaches) = f.frost_reaches_pipe {
-        let _ = write!(
-            h,
-            "<tr><td>Pipe crown depth</td><td class=\"n\">{}</td></tr>\n<tr><td>Frost reaches the pipe</td><td class=\"n\">{}</td></tr>\n<tr><td>Coldest pipe wall ({})</td><td class=\"n\">{}</td></tr>\n<tr><td><b>Required cover</b> (frost depth + {:.2} m margin, common practice)</td><td class=\"n\"><b>{}</b></td></tr>\n",
-            opt(f.pipe_crown_depth_m, "m"),
-            if reaches { "<b>yes</b>" } else { "no" },
-            if f.numerical
-                .as_ref()
-                .is_some_and(|n| n.pipe_min_wall_temperature_c.is_some())
-            {
-                "engine, design winter"
-            } else {
-                "undisturbed ground, water through the wall"
-            },
-            opt(f.pipe_min_temperature_c, "°C"),
-            f.margin_m,
-            opt(f.required_cover_m, "m")
-        );
-    }
-    if let Some(n) = &f.numerical {
-        let _ = write!(
-            h,
-            "<tr><td>Engine run: cells; step; spin-up; winter scale; energy balance</td><td class=\"n\">{}; {:.0} h; {} years; {:.3}; {:.1e}</td></tr>\n<tr><td>Deepest free-field frost, day of the season</td><td class=\"n\">{:.0}</td></tr>\n",
-            n.cells,
-            n.time_step_h,
-            n.spin_up_years,
-            n.winter_scale,
-            n.energy_balance_relative_error,
-            n.deepest_frost_day
-        );
-    }
-    if let Some(b) = &f.bleed {
-        let _ = write!(
-            h,
-            "<tr><td>Bleed flow keeping {:.0} m of main at or above {:.1} °C (water in at {:.1} °C, ground at {:.1} °C)</td><td class=\"n\"><b>{:.2} l/min</b></td></tr>\n",
-            b.length_m, b.min_temperature_c, b.inlet_temperature_c, b.ground_temperature_c, b.flow_l_per_min
-        );
-    }
-    if let (Some(width), Some(b)) = (f.board_width_m, &f.board) {
-        let text = match width {
-            Some(w) if w <= 0.0 => "none needed".to_string(),
-            Some(w) => format!("<b>{w:.2} m</b>"),
-            None => format!("none up to {:.2} m", b.max_width_m),
-        };
-        let _ = write!(
-            h,
-            "<tr><td>Insulation board {:.0} mm, {:.3} W/(m K), {:.2} m above the crown: narrowest width keeping the crown above 0 °C (engine, no heat from the water)</td><td class=\"n\">{}</td></tr>\n",
-            b.thickness_m * 1000.0,
-            b.conductivity_w_per_m_k,
-            b.gap_m,
-            text
-        );
-    }
-    if let Some(s) = &f.stagnant {
-        let _ = write!(
-            h,
-            "<tr><td>Stagnant water: {:.0} h without flow at {:.1} °C ground, from {:.1} °C</td><td class=\"n\">first ice {}; ice fraction {:.0} %</td></tr>\n",
-            s.duration_h,
-            s.ground_temperature_c,
-            s.initial_water_temperature_c,
-            s.time_to_first_ice_h
-                .map(|t| format!("after {t:.0} h"))
-                .unwrap_or_else(|| "never".into()),
-            s.ice_fraction * 100.0
-        );
-    }
-    let _ = write!(h, "</table>\n");
-    if !f.seasons.is_empty() {
-        let _ = write!(
-            h,
-            "<p class=\"meta\">Seasonal surface freezing indices: {}.</p>\n",
-            f.seasons
-                .iter()
-                .map(|s| format!(
-                    "{}/{}: {:.0} °C·d",
-                    s.start_year,
-                    s.start_year + 1,
-                    s.freezing_index_c_days
+pub fn section(f: &FrostResult) -> Markup {
+    html! {
+        p {
+            "Method: the design surface freezing index (" (f.design_index_basis)
+            ") drives Stefan's formula, summed layer by layer, and the modified Berggren equation, whose coefficient λ comes from the Neumann two-phase relation behind Aldrich & Paynter's (1953) chart (US Army/Air Force TM 5-852-6). Stefan neglects the soil's sensible heat and is shown as an upper bound; the deeper of the modified Berggren and the numerical depth governs."
+        }
+        @if let Some(n) = &f.numerical {
+            p {
+                (format!(
+                    "Numerical: burrow's finite-volume engine runs the section with the main in place (water at its monthly temperatures) from the periodic undisturbed ground through {} spin-up years of the typical year and then the design season, whose below-zero surface temperatures are scaled by {:.3} to give the design freezing index.",
+                    n.spin_up_years, n.winter_scale
                 ))
-                .collect::<Vec<_>>()
-                .join("; ")
-        );
+                " Latent heat of the soil water is released between 0 °C and the layer's freezing interval below it; the frost depth is the 0 °C isotherm (first ice) at the section's edge, away from the pipe, so it lies somewhat deeper than a sharp-front formula's."
+            }
+        }
+        table {
+            tr { th { "figure" } th.n { "value" } }
+            (row("Design surface freezing index", html! { (format!("{:.0} °C·d", f.design_freezing_index_c_days)) }))
+            (row("Air freezing index", html! { (opt(f.air_freezing_index_c_days, "°C·d")) }))
+            (row(
+                "Mean annual surface temperature; freezing season",
+                html! { (format!("{:.2} °C; {:.0} days", f.mean_annual_surface_c, f.freezing_season_days)) },
+            ))
+            (row("Frost depth, Stefan (upper bound)", html! { (opt(f.frost_depth_m.stefan, "m")) }))
+            (row("Frost depth, modified Berggren", html! { (opt(f.frost_depth_m.berggren, "m")) }))
+            (row(
+                "Frost depth, numerical (engine, free field, 0 °C isotherm)",
+                html! {
+                    @match f.frost_depth_m.numerical {
+                        Some(x) => (format!("{x:.2} m")),
+                        None => "not run",
+                    }
+                },
+            ))
+            tr {
+                td { b { "Governing frost depth" } }
+                td.n { b { (format!("{:.2} m", f.max_frost_depth_m)) } }
+            }
+            @if let Some(b) = &f.berggren {
+                (row(
+                    "Berggren λ (thermal ratio α, fusion parameter μ)",
+                    html! { (format!("{:.3} ({:.2}, {:.3})", b.lambda, b.thermal_ratio, b.fusion_parameter)) },
+                ))
+            }
+            @if let Some(reaches) = f.frost_reaches_pipe {
+                (row("Pipe crown depth", html! { (opt(f.pipe_crown_depth_m, "m")) }))
+                (row(
+                    "Frost reaches the pipe",
+                    html! { @if reaches { b { "yes" } } @else { "no" } },
+                ))
+                tr {
+                    td {
+                        "Coldest pipe wall ("
+                        @if f.numerical.as_ref().is_some_and(|n| n.pipe_min_wall_temperature_c.is_some()) {
+                            "engine, design winter"
+                        } @else {
+                            "undisturbed ground, water through the wall"
+                        }
+                        ")"
+                    }
+                    td.n { (opt(f.pipe_min_temperature_c, "°C")) }
+                }
+                tr {
+                    td { b { "Required cover" } (format!(" (frost depth + {:.2} m margin, common practice)", f.margin_m)) }
+                    td.n { b { (opt(f.required_cover_m, "m")) } }
+                }
+            }
+            @if let Some(n) = &f.numerical {
+                (row(
+                    "Engine run: cells; step; spin-up; winter scale; energy balance",
+                    html! {
+                        (format!(
+                            "{}; {:.0} h; {} years; {:.3}; {:.1e}",
+                            n.cells, n.time_step_h, n.spin_up_years, n.winter_scale, n.energy_balance_relative_error
+                        ))
+                    },
+                ))
+                (row("Deepest free-field frost, day of the season", html! { (format!("{:.0}", n.deepest_frost_day)) }))
+            }
+            @if let Some(b) = &f.bleed {
+                tr {
+                    td {
+                        (format!(
+                            "Bleed flow keeping {:.0} m of main at or above {:.1} °C (water in at {:.1} °C, ground at {:.1} °C)",
+                            b.length_m, b.min_temperature_c, b.inlet_temperature_c, b.ground_temperature_c
+                        ))
+                    }
+                    td.n { b { (format!("{:.2} l/min", b.flow_l_per_min)) } }
+                }
+            }
+            @if let (Some(width), Some(b)) = (f.board_width_m, &f.board) {
+                tr {
+                    td {
+                        (format!(
+                            "Insulation board {:.0} mm, {:.3} W/(m K), {:.2} m above the crown: narrowest width keeping the crown above 0 °C (engine, no heat from the water)",
+                            b.thickness_m * 1000.0,
+                            b.conductivity_w_per_m_k,
+                            b.gap_m
+                        ))
+                    }
+                    td.n {
+                        // The study reports 0 when no board is needed and null when the widest
+                        // board allowed is not enough.
+                        @match width {
+                            Some(w) if w <= 0.0 => "none needed",
+                            Some(w) => b { (format!("{w:.2} m")) },
+                            None => (format!("none up to {:.2} m", b.max_width_m)),
+                        }
+                    }
+                }
+            }
+            @if let Some(s) = &f.stagnant {
+                (row(
+                    &format!(
+                        "Stagnant water: {:.0} h without flow at {:.1} °C ground, from {:.1} °C",
+                        s.duration_h, s.ground_temperature_c, s.initial_water_temperature_c
+                    ),
+                    html! {
+                        "first ice "
+                        @match s.time_to_first_ice_h {
+                            Some(t) => (format!("after {t:.0} h")),
+                            None => "never",
+                        }
+                        (format!("; ice fraction {:.0} %", s.ice_fraction * 100.0))
+                    },
+                ))
+            }
+        }
+        @if !f.seasons.is_empty() {
+            p.meta {
+                "Seasonal surface freezing indices: "
+                (f.seasons
+                    .iter()
+                    .map(|s| format!("{}/{}: {:.0} °C·d", s.start_year, s.start_year + 1, s.freezing_index_c_days))
+                    .collect::<Vec<_>>()
+                    .join("; "))
+                "."
+            }
+        }
     }
+}
+
+/// One row of the figure table: its label and its value.
+fn row(label: &str, value: Markup) -> Markup {
+    html! {
+        tr { td { (label) } td.n { (value) } }
+    }
+}
+
+/// An optional figure to two decimals with its unit, or a dash.
+fn opt(v: Option<f64>, unit: &str) -> String {
+    v.map(|x| format!("{x:.2} {unit}")).unwrap_or_else(|| "—".into())
 }
 
 /// The CSV files of a frost study: file name and text.

@@ -1,14 +1,11 @@
 //! Report section, plots and CSV of a `heat-loss` study.
 
-// HTML is written line by line; a trailing `\n` in `write!` keeps the markup readable.
-#![allow(clippy::write_with_newline)]
-
-use super::HeatLossResult;
+use super::{CrossCheck, HeatLossResult, SizingResult, TwinResult};
 use crate::report::Figure;
-use crate::report::html::esc;
 use crate::report::plot::isotherm_levels;
 use crate::report::plot::{FieldPlot, LinePlot, Series, SeriesStyle, render_field_plot, render_line_plot};
 use crate::results::StudyResult;
+use maud::{Markup, html};
 use std::fmt::Write;
 
 pub fn figures(s: &StudyResult, h: &HeatLossResult) -> Result<Vec<Figure>, String> {
@@ -137,160 +134,199 @@ pub fn figures(s: &StudyResult, h: &HeatLossResult) -> Result<Vec<Figure>, Strin
     Ok(out)
 }
 
-pub fn section(h_out: &mut String, h: &HeatLossResult) {
-    let _ = write!(
-        h_out,
-        "<p>Method: steady conduction month by month — each pipe a line source with its image above the surface (Kelvin; Carslaw &amp; Jaeger §10.10), the exact cylinder ground resistance acosh(H′/r)/(2πk), the surface resistance R0 = {} m² K/W as an added depth H′ = H + k·R0 (EN 13941-1 practice), wall layers as coaxial cylinders, the pair coupled through the mutual resistance (EN 13941-1; Wallentén 1991). Soil conductivity {:.2} W/(m K), the layer at the pipes.</p>\n",
-        h.surface_resistance_m2_k_per_w, h.soil_conductivity_w_per_m_k
-    );
-    let _ = write!(
-        h_out,
-        "<table>\n<tr><th>pipe</th><th class=\"n\">heat loss</th><th class=\"n\">per year</th><th class=\"n\">U</th></tr>\n"
-    );
-    for p in &h.pipes {
-        let _ = write!(
-            h_out,
-            "<tr><td>{}</td><td class=\"n\">{:.2} W/m</td><td class=\"n\">{:.1} kWh/m</td><td class=\"n\">{:.4} W/(m K)</td></tr>\n",
-            esc(&p.id),
-            p.heat_loss_w_per_m,
-            p.annual_heat_loss_kwh_per_m,
-            p.u_w_per_m_k
-        );
-    }
-    let _ = write!(
-        h_out,
-        "<tr><th>trench</th><th class=\"n\">{:.2} W/m</th><th class=\"n\">{:.1} MWh over {} m</th><th></th></tr>\n</table>\n",
-        h.total_heat_loss_w_per_m, h.annual_heat_loss_mwh, h.length_m
-    );
-    if let Some(t) = &h.twin {
-        twin_section(h_out, t);
-    }
-    for p in h
-        .pipes
-        .iter()
-        .filter(|p| p.insulation_conductivity_w_per_m_k.is_some())
-    {
-        let _ = write!(
-            h_out,
-            "<p>Insulation of <b>{}</b> by EN 253 practice (aged λ50 and its slope): {:.4} W/(m K) at its mean temperature {:.1} °C (annual means).</p>\n",
-            esc(&p.id),
-            p.insulation_conductivity_w_per_m_k.unwrap_or(f64::NAN),
-            p.insulation_mean_temperature_c.unwrap_or(f64::NAN)
-        );
-    }
-    if let Some(c) = &h.cross_check {
-        let _ = write!(
-            h_out,
-            "<h4>Analytic against numerical</h4>\n<p>The finite-volume engine's steady solution of the same section ({}; {} cells) beside the analytic annual means; trench total {:.2} W/m numerically ({:.2} % apart){}; largest difference {:.2} %.</p>\n<table>\n<tr><th>pipe</th><th class=\"n\">analytic</th><th class=\"n\">numerical</th></tr>\n",
-            esc(&c.model),
-            c.cells,
-            c.total_heat_loss_w_per_m,
-            c.total_relative_difference * 100.0,
-            match (
-                c.antisymmetric_heat_flow_w_per_m,
-                c.antisymmetric_relative_difference
-            ) {
-                (Some(a), Some(d)) => format!(", antisymmetric part {a:.2} W/m ({:.2} % apart)", d * 100.0),
-                _ => String::new(),
-            },
-            c.max_relative_difference * 100.0
-        );
-        for (p, n) in h.pipes.iter().zip(&c.pipes) {
-            let _ = write!(
-                h_out,
-                "<tr><td>{}</td><td class=\"n\">{:.2} W/m</td><td class=\"n\">{:.2} W/m</td></tr>\n",
-                esc(&p.id),
-                p.heat_loss_w_per_m,
-                n.heat_loss_w_per_m
-            );
+pub fn section(h: &HeatLossResult) -> Markup {
+    html! {
+        p {
+            "Method: steady conduction month by month — each pipe a line source with its image above the surface (Kelvin; Carslaw & Jaeger §10.10), the exact cylinder ground resistance acosh(H′/r)/(2πk), the surface resistance R0 = "
+            (h.surface_resistance_m2_k_per_w)
+            " m² K/W as an added depth H′ = H + k·R0 (EN 13941-1 practice), wall layers as coaxial cylinders, the pair coupled through the mutual resistance (EN 13941-1; Wallentén 1991). Soil conductivity "
+            (format!("{:.2}", h.soil_conductivity_w_per_m_k))
+            " W/(m K), the layer at the pipes."
         }
-        let _ = write!(h_out, "</table>\n");
-    }
-    if !h.neighbours.is_empty() {
-        let _ = write!(
-            h_out,
-            "<h4>Neighbouring points</h4>\n<table>\n<tr><th>point</th><th class=\"n\">highest soil temperature</th><th class=\"n\">numerical</th><th class=\"n\">month</th><th class=\"n\">limit</th><th>passes</th></tr>\n"
-        );
-        for n in &h.neighbours {
-            let _ = write!(
-                h_out,
-                "<tr><td>{}</td><td class=\"n\">{:.1} °C</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td>{}</td></tr>\n",
-                esc(&n.id),
-                n.max_temperature_c,
-                n.numerical_max_temperature_c
-                    .map(|t| format!("{t:.1} °C"))
-                    .unwrap_or_else(|| "—".into()),
-                n.month_of_max,
-                n.limit_c
-                    .map(|l| format!("{l:.1} °C"))
-                    .unwrap_or_else(|| "—".into()),
-                if n.limit_c.is_none() {
-                    "—"
-                } else if n.exceeds_limit {
-                    "no"
-                } else {
-                    "yes"
+        table {
+            tr { th { "pipe" } th.n { "heat loss" } th.n { "per year" } th.n { "U" } }
+            @for p in &h.pipes {
+                tr {
+                    td { (p.id) }
+                    td.n { (format!("{:.2} W/m", p.heat_loss_w_per_m)) }
+                    td.n { (format!("{:.1} kWh/m", p.annual_heat_loss_kwh_per_m)) }
+                    td.n { (format!("{:.4} W/(m K)", p.u_w_per_m_k)) }
                 }
-            );
+            }
+            tr {
+                th { "trench" }
+                th.n { (format!("{:.2} W/m", h.total_heat_loss_w_per_m)) }
+                th.n { (format!("{:.1} MWh over {} m", h.annual_heat_loss_mwh, h.length_m)) }
+                th {}
+            }
         }
-        let _ = write!(h_out, "</table>\n");
-    }
-    if let Some(sz) = &h.sizing {
-        let _ = write!(
-            h_out,
-            "<h4>Insulation sizing ({})</h4>\n<p>The outer diameter follows the layer; the pipes keep their depth and their clear horizontal gaps. Thinnest meeting the limit: <b>{}</b>. Lowest life-cycle cost: <b>{}</b>.</p>\n<table>\n<tr><th class=\"n\">thickness</th><th class=\"n\">trench loss</th><th class=\"n\">per year</th><th>meets limit</th><th class=\"n\">life-cycle cost / m</th><th class=\"n\">numerical loss</th></tr>\n",
-            esc(&sz.layer),
-            sz.chosen_insulation_thickness_m
-                .map(|t| format!("{:.1} mm", t * 1000.0))
-                .unwrap_or_else(|| "none".into()),
-            sz.cheapest_insulation_thickness_m
-                .map(|t| format!("{:.1} mm", t * 1000.0))
-                .unwrap_or_else(|| "—".into()),
-        );
-        for c in &sz.candidates {
-            let _ = write!(
-                h_out,
-                "<tr><td class=\"n\">{:.1} mm</td><td class=\"n\">{:.2} W/m</td><td class=\"n\">{:.1} kWh/m</td><td>{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td></tr>\n",
-                c.insulation_thickness_m * 1000.0,
-                c.heat_loss_w_per_m,
-                c.annual_heat_loss_kwh_per_m,
-                match c.meets_limit {
-                    Some(true) => "yes",
-                    Some(false) => "no",
-                    None => "—",
-                },
-                c.life_cycle_cost_per_m
-                    .map(|v| format!("{v:.0}"))
-                    .unwrap_or_else(|| "—".into()),
-                c.numerical_heat_loss_w_per_m
-                    .map(|v| format!("{v:.2} W/m"))
-                    .unwrap_or_else(|| "—".into())
-            );
+        @if let Some(t) = &h.twin {
+            (twin_section(t))
         }
-        let _ = write!(h_out, "</table>\n");
+        @for p in h.pipes.iter().filter(|p| p.insulation_conductivity_w_per_m_k.is_some()) {
+            p {
+                "Insulation of " b { (p.id) } " by EN 253 practice (aged λ50 and its slope): "
+                (format!(
+                    "{:.4} W/(m K) at its mean temperature {:.1} °C",
+                    p.insulation_conductivity_w_per_m_k.unwrap_or(f64::NAN),
+                    p.insulation_mean_temperature_c.unwrap_or(f64::NAN)
+                ))
+                " (annual means)."
+            }
+        }
+        @if let Some(c) = &h.cross_check {
+            (cross_check(h, c))
+        }
+        @if !h.neighbours.is_empty() {
+            (neighbours(h))
+        }
+        @if let Some(sz) = &h.sizing {
+            (sizing(sz))
+        }
     }
 }
 
+/// The engine's steady solution of the same section beside the analytic annual means.
+fn cross_check(h: &HeatLossResult, c: &CrossCheck) -> Markup {
+    html! {
+        h4 { "Analytic against numerical" }
+        p {
+            "The finite-volume engine's steady solution of the same section (" (c.model) "; "
+            (c.cells) " cells) beside the analytic annual means; trench total "
+            (format!(
+                "{:.2} W/m numerically ({:.2} % apart)",
+                c.total_heat_loss_w_per_m,
+                c.total_relative_difference * 100.0
+            ))
+            @if let (Some(a), Some(d)) = (c.antisymmetric_heat_flow_w_per_m, c.antisymmetric_relative_difference) {
+                (format!(", antisymmetric part {a:.2} W/m ({:.2} % apart)", d * 100.0))
+            }
+            (format!("; largest difference {:.2} %.", c.max_relative_difference * 100.0))
+        }
+        table {
+            tr { th { "pipe" } th.n { "analytic" } th.n { "numerical" } }
+            @for (p, n) in h.pipes.iter().zip(&c.pipes) {
+                tr {
+                    td { (p.id) }
+                    td.n { (format!("{:.2} W/m", p.heat_loss_w_per_m)) }
+                    td.n { (format!("{:.2} W/m", n.heat_loss_w_per_m)) }
+                }
+            }
+        }
+    }
+}
+
+/// The highest soil temperature at each neighbouring point, against its limit.
+fn neighbours(h: &HeatLossResult) -> Markup {
+    html! {
+        h4 { "Neighbouring points" }
+        table {
+            tr {
+                th { "point" }
+                th.n { "highest soil temperature" }
+                th.n { "numerical" }
+                th.n { "month" }
+                th.n { "limit" }
+                th { "passes" }
+            }
+            @for n in &h.neighbours {
+                tr {
+                    td { (n.id) }
+                    td.n { (format!("{:.1} °C", n.max_temperature_c)) }
+                    td.n { (or_dash(n.numerical_max_temperature_c.map(|t| format!("{t:.1} °C")))) }
+                    td.n { (n.month_of_max) }
+                    td.n { (or_dash(n.limit_c.map(|l| format!("{l:.1} °C")))) }
+                    td {
+                        @if n.limit_c.is_none() {
+                            "—"
+                        } @else if n.exceeds_limit {
+                            "no"
+                        } @else {
+                            "yes"
+                        }
+                    }
+                }
+            }
+        }
+    }
+}
+
+/// The candidates of the insulation sizing.
+fn sizing(sz: &SizingResult) -> Markup {
+    html! {
+        h4 { "Insulation sizing (" (sz.layer) ")" }
+        p {
+            "The outer diameter follows the layer; the pipes keep their depth and their clear horizontal gaps. Thinnest meeting the limit: "
+            b {
+                @match sz.chosen_insulation_thickness_m {
+                    Some(t) => (format!("{:.1} mm", t * 1000.0)),
+                    None => "none",
+                }
+            }
+            ". Lowest life-cycle cost: "
+            b { (or_dash(sz.cheapest_insulation_thickness_m.map(|t| format!("{:.1} mm", t * 1000.0)))) }
+            "."
+        }
+        table {
+            tr {
+                th.n { "thickness" }
+                th.n { "trench loss" }
+                th.n { "per year" }
+                th { "meets limit" }
+                th.n { "life-cycle cost / m" }
+                th.n { "numerical loss" }
+            }
+            @for c in &sz.candidates {
+                tr {
+                    td.n { (format!("{:.1} mm", c.insulation_thickness_m * 1000.0)) }
+                    td.n { (format!("{:.2} W/m", c.heat_loss_w_per_m)) }
+                    td.n { (format!("{:.1} kWh/m", c.annual_heat_loss_kwh_per_m)) }
+                    td {
+                        @match c.meets_limit {
+                            Some(true) => "yes",
+                            Some(false) => "no",
+                            None => "—",
+                        }
+                    }
+                    td.n { (or_dash(c.life_cycle_cost_per_m.map(|v| format!("{v:.0}")))) }
+                    td.n { (or_dash(c.numerical_heat_loss_w_per_m.map(|v| format!("{v:.2} W/m")))) }
+                }
+            }
+        }
+    }
+}
+
+/// A figure's text, or a dash where the study has none.
+fn or_dash(text: Option<String>) -> String {
+    text.unwrap_or_else(|| "—".into())
+}
+
 /// The twin pipe's resistances and its symmetric/antisymmetric split.
-fn twin_section(h_out: &mut String, t: &crate::kinds::heat_loss::TwinResult) {
-    let _ = write!(
-        h_out,
-        "<h4>Twin pipe {}</h4>\n<p>Both carriers in one casing of {:.0} mm, {:.0} mm apart; Wallentén's first-order formulas (the form of EN 15698-1): symmetric resistance {:.4} m K/W (insulation, casing and ground; h<sub>s</sub> = {:.4}), antisymmetric {:.4} m K/W between the carriers (h<sub>a</sub> = {:.4}); insulation {:.4} W/(m K){}. Symmetric part (the twin's loss) {:.2} W/m, {:.1} kWh/m per year; supply → return {:.2} W/m.</p>\n",
-        esc(&t.id),
-        t.casing_outer_diameter_m * 1000.0,
-        t.carrier_spacing_m * 1000.0,
-        t.symmetric_resistance_m_k_per_w,
-        t.h_s,
-        t.antisymmetric_resistance_m_k_per_w,
-        t.h_a,
-        t.insulation_conductivity_w_per_m_k,
-        t.insulation_mean_temperature_c
-            .map(|m| format!(" at its mean temperature {m:.1} °C (EN 253 law)"))
-            .unwrap_or_default(),
-        t.symmetric_heat_loss_w_per_m,
-        t.annual_heat_loss_kwh_per_m,
-        t.antisymmetric_heat_flow_w_per_m
-    );
+fn twin_section(t: &TwinResult) -> Markup {
+    html! {
+        h4 { "Twin pipe " (t.id) }
+        p {
+            (format!(
+                "Both carriers in one casing of {:.0} mm, {:.0} mm apart; Wallentén's first-order formulas (the form of EN 15698-1): symmetric resistance {:.4} m K/W (insulation, casing and ground; h",
+                t.casing_outer_diameter_m * 1000.0,
+                t.carrier_spacing_m * 1000.0,
+                t.symmetric_resistance_m_k_per_w
+            ))
+            sub { "s" }
+            (format!(" = {:.4}), antisymmetric {:.4} m K/W between the carriers (h", t.h_s, t.antisymmetric_resistance_m_k_per_w))
+            sub { "a" }
+            (format!(" = {:.4}); insulation {:.4} W/(m K)", t.h_a, t.insulation_conductivity_w_per_m_k))
+            @if let Some(m) = t.insulation_mean_temperature_c {
+                (format!(" at its mean temperature {m:.1} °C (EN 253 law)"))
+            }
+            (format!(
+                ". Symmetric part (the twin's loss) {:.2} W/m, {:.1} kWh/m per year; supply → return {:.2} W/m.",
+                t.symmetric_heat_loss_w_per_m,
+                t.annual_heat_loss_kwh_per_m,
+                t.antisymmetric_heat_flow_w_per_m
+            ))
+        }
+    }
 }
 
 /// `<id>-monthly.csv`: the monthly figures with units in the header.
