@@ -41,6 +41,7 @@ use crate::physics::pipe_flow::{
 use crate::physics::superposition::{
     self, BoreholeOperation, FluidTemperatures, MONTH_S, MonthlyLoads, SampledStepResponse,
 };
+use crate::numerics::roots;
 use crate::results::{Level, Warning};
 use super::AnnualGroundLoads;
 use super::BorefieldFluid;
@@ -832,7 +833,8 @@ impl Design<'_> {
                 ));
             };
             if k > 0 {
-                needed[limit] = bisect(scan[k - 1], scan[k], |h| Ok(approx(h)?[limit]))?;
+                needed[limit] =
+                    length_where_margin_vanishes(scan[k - 1], scan[k], |h| Ok(approx(h)?[limit]))?;
             }
         }
         let governing = if needed[0] <= lo && needed[1] <= lo {
@@ -853,7 +855,7 @@ impl Design<'_> {
                 let (a, c) = if exact < 0.0 { (length, hi) } else { (lo, length) };
                 let shifted = |h: f64| Ok(approx(h)?[limit] + offset);
                 if shifted(a)? * shifted(c)? < 0.0 {
-                    length = bisect(a, c, shifted)?;
+                    length = length_where_margin_vanishes(a, c, shifted)?;
                 }
             }
         }
@@ -871,22 +873,17 @@ impl Design<'_> {
     }
 }
 
-/// The root of `f` in [a, b] where f(a) < 0 ≤ f(b) or the reverse, to 1 mm, by bisection.
-fn bisect(mut a: f64, mut b: f64, f: impl Fn(f64) -> Result<f64, String>) -> Result<f64, String> {
-    let fa = f(a)?;
-    for _ in 0..60 {
-        if (b - a).abs() < 1e-3 {
-            break;
-        }
-        let m = 0.5 * (a + b);
-        if (f(m)? < 0.0) == (fa < 0.0) {
-            a = m;
-        } else {
-            b = m;
-        }
-    }
-    // The end on the side where the limit is met.
-    Ok(if fa >= 0.0 { a } else { b })
+/// The length in [a, b] where the margin `f` (≥ 0 when the limit is met) crosses zero, to 1 mm:
+/// the end of Brent's final bracket on the side where the limit is met.
+fn length_where_margin_vanishes(
+    a: f64,
+    b: f64,
+    f: impl Fn(f64) -> Result<f64, String>,
+) -> Result<f64, String> {
+    let bracket = roots::try_brent_bracket(f, a, b, |_| 1e-3)?.ok_or_else(|| {
+        format!("the fluid temperature margin does not change sign between {a:.1} and {b:.1} m")
+    })?;
+    Ok(bracket.non_negative_end())
 }
 
 // ---------------------------------------------------------------------------------------------
