@@ -39,9 +39,10 @@ use crate::physics::pipe_flow::{
     U_BEND_LOSS_COEFFICIENT,
 };
 use crate::physics::superposition::{
-    self, BoreholeOperation, FluidTemperatures, MONTH_S, MonthlyLoads, SampledStepResponse,
+    self, BoreholeOperation, FluidTemperatures, MonthlyLoads, SampledStepResponse,
 };
 use crate::numerics::roots;
+use crate::numerics::time::{HOUR_S, HOURS_PER_MONTH, MONTH_S};
 use crate::results::{Level, Warning};
 use super::AnnualGroundLoads;
 use super::BorefieldFluid;
@@ -61,9 +62,6 @@ pub const SIZING_NODES: usize = 6;
 /// Smallest safe margin between the coldest fluid and its freezing point, K (common practice,
 /// no source).
 pub const ANTIFREEZE_MARGIN_K: f64 = 3.0;
-
-/// Hours in a model month (a 365-day year in twelve equal months).
-const HOURS_PER_MONTH: usize = 730;
 
 /// Widest spacing of the ln(t/t_s) grid of the g-function.
 const MAX_TAU_STEP: f64 = 0.35;
@@ -211,12 +209,12 @@ impl Loads {
                 (e + (-q).max(0.0) * MONTH_S, i + q.max(0.0) * MONTH_S)
             }),
             Loads::Hourly(q) => q.iter().fold((0.0, 0.0), |(e, i), q| {
-                (e + (-q).max(0.0) * 3600.0, i + q.max(0.0) * 3600.0)
+                (e + (-q).max(0.0) * HOUR_S, i + q.max(0.0) * HOUR_S)
             }),
         };
         AnnualGroundLoads {
-            extracted_mwh: extracted_j / 3.6e9,
-            injected_mwh: injected_j / 3.6e9,
+            extracted_mwh: extracted_j / (1e6 * HOUR_S),
+            injected_mwh: injected_j / (1e6 * HOUR_S),
         }
     }
 }
@@ -330,8 +328,8 @@ impl<'a> Design<'a> {
         };
         let loads = Loads::from_model(&b.loads);
         let shortest = match &loads {
-            Loads::Monthly { peak_duration_s, .. } => peak_duration_s.min(3600.0),
-            Loads::Hourly(_) => 3600.0,
+            Loads::Monthly { peak_duration_s, .. } => peak_duration_s.min(HOUR_S),
+            Loads::Hourly(_) => HOUR_S,
         };
         Ok(Design {
             b,
@@ -506,7 +504,7 @@ impl<'a> Design<'a> {
             Loads::Hourly(values) => {
                 let steps = months * HOURS_PER_MONTH;
                 let q: Vec<f64> = (0..steps).map(|k| values[k % values.len()] * per_metre).collect();
-                let sampled = SampledStepResponse::new(&step, 3600.0, steps)?;
+                let sampled = SampledStepResponse::new(&step, HOUR_S, steps)?;
                 let hours = superposition::fluid_temperature_series(&q, &sampled, &operation)?;
                 hours
                     .chunks(HOURS_PER_MONTH)

@@ -24,6 +24,7 @@ use crate::ground::climate::SurfaceYear;
 use crate::ground::profile::Undisturbed;
 use crate::model::{DAY_S, Pipe, Site, YEAR_S};
 use crate::numerics::roots;
+use crate::numerics::time::HOUR_S;
 use super::FrostBoard;
 use crate::physics::frost as fp;
 use crate::kinds::engine_model::{engine_pipe, sample, soil_layers};
@@ -57,7 +58,7 @@ pub const DEFAULT_RESOLUTION: Resolution = Resolution {
         cells_across_pipe: 6,
     },
     spin_up_step_s: DAY_S,
-    winter_step_s: 6.0 * 3600.0,
+    winter_step_s: 6.0 * HOUR_S,
     half_width_m: 5.0,
     depth_m: 10.0,
 };

@@ -9,6 +9,7 @@
 
 use crate::ground::profile::Undisturbed;
 use crate::model::{InsulationLaw, Method, Pipe, PipeDrive, Site};
+use crate::numerics::time::MONTH_S;
 use super::HeatLoss;
 use super::TwinCasing;
 use crate::physics::buried_pipe::seasonal::{annual_energy_kwh_per_m, monthly_pipe_states};
@@ -678,7 +679,7 @@ fn field(study: &HeatLoss, ground: &Undisturbed, losses: &Losses, soil: &Soil) -
         .collect();
     let (sources, radii, monthly) = sources(study, losses);
     let q: Vec<f64> = monthly.iter().map(|x| x[month]).collect();
-    let t_mid = (month as f64 + 0.5) * 365.0 / 12.0 * crate::model::DAY_S;
+    let t_mid = (month as f64 + 0.5) * MONTH_S;
     let values_c = z_m
         .iter()
         .map(|&z| {
