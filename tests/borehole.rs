@@ -133,7 +133,7 @@ fn resistance_matrix_is_symmetric() {
         .matrix_m_k_per_w;
     for i in 0..4 {
         for j in 0..4 {
-            assert!((r[(i, j)] - r[(j, i)]).abs() < 1e-12 * r[(i, i)], "R[{i},{j}]");
+            assert!((r[i][j] - r[j][i]).abs() < 1e-12 * r[i][i], "R[{i},{j}]");
         }
     }
 }
