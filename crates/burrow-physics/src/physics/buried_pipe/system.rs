@@ -419,3 +419,55 @@ pub fn twin_with_insulation_law(
         insulation_mean_c,
     })
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::physics::buried_pipe::DEFAULT_SURFACE_RESISTANCE_M2_K_PER_W;
+
+    fn twin(insulation_w_per_m_k: f64) -> TwinPipe {
+        TwinPipe {
+            centre: Position::new(0.0, 0.8),
+            casing_outer_radius_m: 0.14,
+            casing_thickness_m: 0.004,
+            casing_conductivity_w_per_m_k: 0.4,
+            insulation_conductivity_w_per_m_k: insulation_w_per_m_k,
+            carrier_outer_radius_m: 0.04445,
+            carrier_spacing_m: 0.12,
+            carrier_wall_resistance_m_k_per_w: 1e-4,
+        }
+    }
+
+    #[test]
+    fn a_twin_pipes_law_settles_at_its_mean_insulation_temperature() {
+        // EN 253 practice (λ at the foam's mean temperature): the settled λ is the law at the mean
+        // of the carriers' surfaces and the casing's inner face, worked out here from the
+        // returned rates; with no slope the law is the constant λ50 and the plain twin results.
+        let soil = Soil::new(1.5, DEFAULT_SURFACE_RESISTANCE_M2_K_PER_W).unwrap();
+        let (form, method) = (GroundForm::Exact, TwinMethod::FirstOrder);
+        let temperatures = (80.0, 45.0, 8.0);
+        let law = LinearConductivity::en253(0.024, 0.2, 1e-4).unwrap();
+        let s = twin_with_insulation_law(&twin(0.03), &law, temperatures, &soil, form, method).unwrap();
+        let [q_s, q_r] = s.heat_w_per_m;
+        let carriers = 0.5 * ((80.0 - q_s * 1e-4) + (45.0 - q_r * 1e-4));
+        let casing = 8.0 + (q_s + q_r) * (s.resistances.casing_m_k_per_w + s.resistances.ground_m_k_per_w);
+        let mean = 0.5 * (carriers + casing);
+        assert!(
+            (s.insulation_mean_c - mean).abs() < 1e-6,
+            "{} vs {mean}",
+            s.insulation_mean_c
+        );
+        assert!((s.insulation_w_per_m_k - law.at(mean).unwrap()).abs() < 1e-8);
+        let plain = twin(s.insulation_w_per_m_k)
+            .resistances(&soil, form, method)
+            .unwrap();
+        let q = plain.heat_rates_w_per_m(80.0, 45.0, 8.0).unwrap();
+        assert!(((q[0] + q[1]) / (q_s + q_r) - 1.0).abs() < 1e-7);
+
+        let flat = LinearConductivity::en253(0.026, 0.0, 0.0).unwrap();
+        let s = twin_with_insulation_law(&twin(0.03), &flat, temperatures, &soil, form, method).unwrap();
+        let plain = twin(0.026).resistances(&soil, form, method).unwrap();
+        assert_eq!(s.heat_w_per_m, plain.heat_rates_w_per_m(80.0, 45.0, 8.0).unwrap());
+        assert_eq!(s.insulation_w_per_m_k, 0.026);
+    }
+}
