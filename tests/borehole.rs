@@ -131,9 +131,10 @@ fn resistance_matrix_is_symmetric() {
         .resistance_matrix(DEFAULT_MULTIPOLE_ORDER)
         .unwrap()
         .matrix_m_k_per_w;
-    for i in 0..4 {
-        for j in 0..4 {
-            assert!((r[(i, j)] - r[(j, i)]).abs() < 1e-12 * r[(i, i)], "R[{i},{j}]");
+    assert_eq!(r.len(), 4);
+    for (i, row) in r.iter().enumerate() {
+        for (j, r_ij) in row.iter().enumerate() {
+            assert!((r_ij - r[j][i]).abs() < 1e-12 * r[i][i], "R[{i},{j}]");
         }
     }
 }

@@ -2,6 +2,8 @@
 //! along the depth (the Δ-circuit model of Hellström 1991), integrated here by RK4 shooting.
 
 use burrow::physics::borehole::*;
+use faer::Mat;
+use faer::linalg::solvers::{DenseSolveCore, Solve};
 
 /// Δ-circuit conductances per metre, W/(m K): leg 1 (downward) to the wall, leg 2 (upward) to the
 /// wall, and between the legs.
@@ -166,7 +168,7 @@ fn effective_resistance_refuses_non_positive_inputs() {
 /// (q_i = Σ_j K_ij (T_j − T_b)), uniform wall temperature T_b = 0. Legs in `down` flow down with
 /// capacity C/|down| each, and leg `up[i]` continues leg `down[i]` at the foot. Returns R_b*.
 fn multi_leg_effective_resistance(
-    k: &nalgebra::DMatrix<f64>,
+    k: &Mat<f64>,
     down: &[usize],
     up: &[usize],
     length: f64,
@@ -211,7 +213,7 @@ fn multi_leg_effective_resistance(
     // The mismatch is affine in the guesses: build its Jacobian from unit shots and solve.
     let m = up.len();
     let base = shoot(&vec![0.0; m]);
-    let mut jacobian = nalgebra::DMatrix::zeros(m, m);
+    let mut jacobian = Mat::<f64>::zeros(m, m);
     for c in 0..m {
         let mut g = vec![0.0; m];
         g[c] = 1.0;
@@ -221,10 +223,10 @@ fn multi_leg_effective_resistance(
         }
     }
     let outlets = jacobian
-        .lu()
-        .solve(&(-nalgebra::DVector::from_vec(base)))
-        .unwrap();
-    let outlet = outlets.mean();
+        .as_ref()
+        .partial_piv_lu()
+        .solve(Mat::<f64>::from_fn(m, 1, |r, _| -base[r]));
+    let outlet = (0..m).map(|r| outlets[(r, 0)]).sum::<f64>() / m as f64;
     let heat_per_m = capacity * (1.0 - outlet) / length;
     0.5 * (1.0 + outlet) / heat_per_m
 }
@@ -250,7 +252,11 @@ fn double_u_effective_resistance_matches_four_leg_depth_integration() {
             .resistance_matrix(DEFAULT_MULTIPOLE_ORDER)
             .unwrap()
             .matrix_m_k_per_w;
-        let k = matrix.try_inverse().unwrap();
+        let n = matrix.len();
+        let k = Mat::<f64>::from_fn(n, n, |i, j| matrix[i][j])
+            .as_ref()
+            .partial_piv_lu()
+            .inverse();
         let (down, up) = d.legs();
         // Each U joins down[i] to up[i] at the foot.
         let (length, capacity) = (250.0, 500.0);

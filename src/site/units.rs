@@ -34,16 +34,16 @@
 //! Errors are single sentences without a trailing full stop or source location;
 //! the caller adds file, line, column and key path.
 
+// The hour, day and year of the model calendar: burrow's year is 365 days (31 536 000 s), not
+// the Julian 365.25 d, so that a year of hourly loads is exactly 8760 hours.
+use crate::numerics::time::{DAY_S, HOUR_S, YEAR_S};
 use std::fmt;
 
 /// Exponents of length, mass, time and temperature.
 type DimVec = [i32; 4];
 
-const KWH_J: f64 = 3.6e6;
-const DAY_S: f64 = 86_400.0;
-/// burrow's year is 365 days (31 536 000 s), not the Julian 365.25 d, so that a
-/// year of hourly loads is exactly 8760 hours.
-const YEAR_S: f64 = 365.0 * DAY_S;
+/// One kilowatt hour, J.
+const KWH_J: f64 = 1e3 * HOUR_S;
 /// NIST SP 811 (2008) B.8: 1 in = 0.0254 m exactly.
 const INCH_M: f64 = 0.0254;
 /// NIST SP 811 (2008) B.8: 1 ft = 0.3048 m exactly.
@@ -91,7 +91,7 @@ const ATOMS: &[Atom] = &[
     atom(&["m"], 1.0, LEN), atom(&["cm"], 0.01, LEN), atom(&["mm"], 0.001, LEN),
     atom(&["km"], 1000.0, LEN), atom(&["in"], INCH_M, LEN), atom(&["ft"], FOOT_M, LEN),
     atom(&["g"], 0.001, MASS), atom(&["kg"], 1.0, MASS), atom(&["lb"], POUND_KG, MASS),
-    atom(&["s"], 1.0, TIME), atom(&["min"], 60.0, TIME), atom(&["h"], 3600.0, TIME),
+    atom(&["s"], 1.0, TIME), atom(&["min"], 60.0, TIME), atom(&["h"], HOUR_S, TIME),
     atom(&["d", "day", "days"], DAY_S, TIME),
     atom(&["week", "weeks"], 7.0 * DAY_S, TIME),
     atom(&["year", "years", "yr", "a"], YEAR_S, TIME),
@@ -99,7 +99,7 @@ const ATOMS: &[Atom] = &[
     atom(&["°F", "F", "degF", "℉", "Δ°F", "ΔF", "delta_degF"], FAHRENHEIT_K, TEMP),
     atom(&["W"], 1.0, POWER), atom(&["kW"], 1e3, POWER), atom(&["MW"], 1e6, POWER),
     atom(&["J"], 1.0, ENERGY), atom(&["kJ"], 1e3, ENERGY), atom(&["MJ"], 1e6, ENERGY),
-    atom(&["GJ"], 1e9, ENERGY), atom(&["Wh"], 3600.0, ENERGY), atom(&["kWh"], KWH_J, ENERGY),
+    atom(&["GJ"], 1e9, ENERGY), atom(&["Wh"], HOUR_S, ENERGY), atom(&["kWh"], KWH_J, ENERGY),
     atom(&["MWh"], 1e3 * KWH_J, ENERGY), atom(&["GWh"], 1e6 * KWH_J, ENERGY),
     atom(&["Btu"], BTU_IT_J, ENERGY), atom(&["therm"], THERM_US_J, ENERGY),
     atom(&["l", "L"], 1e-3, VOLUME), atom(&["gal"], US_GALLON_M3, VOLUME),

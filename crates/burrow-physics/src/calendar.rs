@@ -1,6 +1,8 @@
 //! Proleptic Gregorian calendar arithmetic (H. Hinnant, "chrono-Compatible Low-Level Date
 //! Algorithms": `days_from_civil` and `civil_from_days`). Days count from 1970-01-01.
 
+use crate::numerics::time::DAY_S;
+
 /// Days from 1970-01-01 to the date `y-m-d`.
 pub fn days_from_civil(y: i32, m: u32, d: u32) -> i64 {
     let y = i64::from(y) - i64::from(m <= 2);
@@ -31,7 +33,7 @@ pub fn today_utc() -> String {
         .duration_since(std::time::UNIX_EPOCH)
         .map(|d| d.as_secs() as i64)
         .unwrap_or(0);
-    let (y, m, d) = civil_from_days(secs.div_euclid(86_400));
+    let (y, m, d) = civil_from_days(secs.div_euclid(DAY_S as i64));
     format!("{y:04}-{m:02}-{d:02}")
 }
 

@@ -41,6 +41,8 @@ use crate::ground::profile::Undisturbed;
 use crate::kinds::Outcome;
 use crate::materials::fluids::Fluid;
 use crate::model::{Site, SoilLayer};
+use crate::numerics::roots;
+use crate::numerics::time::{HOUR_S, HOURS_PER_MONTH, MONTH_S};
 use crate::physics::borehole::{
     self, BoreholeResistances, Coaxial, DEFAULT_MULTIPOLE_ORDER, DoubleU, SingleU,
 };
@@ -50,7 +52,7 @@ use crate::physics::pipe_flow::{
     U_BEND_LOSS_COEFFICIENT,
 };
 use crate::physics::superposition::{
-    self, BoreholeOperation, FluidTemperatures, MONTH_S, MonthlyLoads, SampledStepResponse,
+    self, BoreholeOperation, FluidTemperatures, MonthlyLoads, SampledStepResponse,
 };
 use crate::results::{Assumption, Check, Level, Warning};
 use std::f64::consts::PI;
@@ -61,9 +63,6 @@ pub const SIZING_NODES: usize = 6;
 /// Smallest safe margin between the coldest fluid and its freezing point, K (common practice,
 /// no source).
 pub const ANTIFREEZE_MARGIN_K: f64 = 3.0;
-
-/// Hours in a model month (a 365-day year in twelve equal months).
-const HOURS_PER_MONTH: usize = 730;
 
 /// Widest spacing of the ln(t/t_s) grid of the g-function.
 const MAX_TAU_STEP: f64 = 0.35;
@@ -215,12 +214,12 @@ impl Loads {
                 (e + (-q).max(0.0) * MONTH_S, i + q.max(0.0) * MONTH_S)
             }),
             Loads::Hourly(q) => q.iter().fold((0.0, 0.0), |(e, i), q| {
-                (e + (-q).max(0.0) * 3600.0, i + q.max(0.0) * 3600.0)
+                (e + (-q).max(0.0) * HOUR_S, i + q.max(0.0) * HOUR_S)
             }),
         };
         AnnualGroundLoads {
-            extracted_mwh: extracted_j / 3.6e9,
-            injected_mwh: injected_j / 3.6e9,
+            extracted_mwh: extracted_j / (1e6 * HOUR_S),
+            injected_mwh: injected_j / (1e6 * HOUR_S),
         }
     }
 }
@@ -334,8 +333,8 @@ impl<'a> Design<'a> {
         };
         let loads = Loads::from_model(&b.loads);
         let shortest = match &loads {
-            Loads::Monthly { peak_duration_s, .. } => peak_duration_s.min(3600.0),
-            Loads::Hourly(_) => 3600.0,
+            Loads::Monthly { peak_duration_s, .. } => peak_duration_s.min(HOUR_S),
+            Loads::Hourly(_) => HOUR_S,
         };
         Ok(Design {
             b,
@@ -510,7 +509,7 @@ impl<'a> Design<'a> {
             Loads::Hourly(values) => {
                 let steps = months * HOURS_PER_MONTH;
                 let q: Vec<f64> = (0..steps).map(|k| values[k % values.len()] * per_metre).collect();
-                let sampled = SampledStepResponse::new(&step, 3600.0, steps)?;
+                let sampled = SampledStepResponse::new(&step, HOUR_S, steps)?;
                 let hours = superposition::fluid_temperature_series(&q, &sampled, &operation)?;
                 hours
                     .chunks(HOURS_PER_MONTH)
@@ -837,7 +836,8 @@ impl Design<'_> {
                 ));
             };
             if k > 0 {
-                needed[limit] = bisect(scan[k - 1], scan[k], |h| Ok(approx(h)?[limit]))?;
+                needed[limit] =
+                    length_where_margin_vanishes(scan[k - 1], scan[k], |h| Ok(approx(h)?[limit]))?;
             }
         }
         let governing = if needed[0] <= lo && needed[1] <= lo {
@@ -858,7 +858,7 @@ impl Design<'_> {
                 let (a, c) = if exact < 0.0 { (length, hi) } else { (lo, length) };
                 let shifted = |h: f64| Ok(approx(h)?[limit] + offset);
                 if shifted(a)? * shifted(c)? < 0.0 {
-                    length = bisect(a, c, shifted)?;
+                    length = length_where_margin_vanishes(a, c, shifted)?;
                 }
             }
         }
@@ -876,22 +876,17 @@ impl Design<'_> {
     }
 }
 
-/// The root of `f` in [a, b] where f(a) < 0 ≤ f(b) or the reverse, to 1 mm, by bisection.
-fn bisect(mut a: f64, mut b: f64, f: impl Fn(f64) -> Result<f64, String>) -> Result<f64, String> {
-    let fa = f(a)?;
-    for _ in 0..60 {
-        if (b - a).abs() < 1e-3 {
-            break;
-        }
-        let m = 0.5 * (a + b);
-        if (f(m)? < 0.0) == (fa < 0.0) {
-            a = m;
-        } else {
-            b = m;
-        }
-    }
-    // The end on the side where the limit is met.
-    Ok(if fa >= 0.0 { a } else { b })
+/// The length in [a, b] where the margin `f` (≥ 0 when the limit is met) crosses zero, to 1 mm:
+/// the end of Brent's final bracket on the side where the limit is met.
+fn length_where_margin_vanishes(
+    a: f64,
+    b: f64,
+    f: impl Fn(f64) -> Result<f64, String>,
+) -> Result<f64, String> {
+    let bracket = roots::try_brent_bracket(f, a, b, |_| 1e-3)?.ok_or_else(|| {
+        format!("the fluid temperature margin does not change sign between {a:.1} and {b:.1} m")
+    })?;
+    Ok(bracket.non_negative_end())
 }
 
 // ---------------------------------------------------------------------------------------------

@@ -10,9 +10,9 @@ use super::HeatExchanger;
 use super::LoopPipe;
 use crate::materials::fluids::{Fluid, Mixture};
 use crate::model::Method;
+use crate::numerics::time::{HOUR_S, MONTH_S};
 use crate::physics::borehole::DoubleUPairing;
 use crate::physics::gfunction::WallCondition;
-use crate::physics::superposition::MONTH_S;
 use crate::site::diagnostic::KeyPath;
 use crate::site::quantity::*;
 use crate::site::validate::Validator;
@@ -33,7 +33,7 @@ pub const DEFAULT_PUMP_EFFICIENCY: f64 = 0.5;
 
 /// Default duration of a monthly peak load, s (common practice, no source: a cold morning of
 /// 6 hours at the peak load).
-pub const DEFAULT_PEAK_DURATION_S: f64 = 6.0 * 3600.0;
+pub const DEFAULT_PEAK_DURATION_S: f64 = 6.0 * HOUR_S;
 
 pub fn validate(doc: &BorefieldDoc, path: &KeyPath, v: &mut Validator) -> Option<Borefield> {
     let layout = layout(&doc.layout, &path.key("layout"), v);

@@ -7,6 +7,7 @@ use super::CrossSection;
 use super::Inclusion;
 use super::Probe;
 use super::SectionTime;
+use crate::model::DAY_S;
 use crate::site::diagnostic::KeyPath;
 use crate::site::validate::{self, Validator, round_sig};
 
@@ -225,8 +226,8 @@ fn geometry(s: &CrossSection, path: &KeyPath, v: &mut Validator) -> bool {
                     &path.key("snapshots").index(i),
                     format!(
                         "a snapshot at {} d lies after the end of the run ({} d)",
-                        round_sig(t / 86_400.0),
-                        round_sig(duration_s / 86_400.0)
+                        round_sig(t / DAY_S),
+                        round_sig(duration_s / DAY_S)
                     ),
                 );
                 ok = false;

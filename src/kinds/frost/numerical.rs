@@ -25,6 +25,8 @@ use crate::ground::climate::SurfaceYear;
 use crate::ground::profile::Undisturbed;
 use crate::kinds::engine_model::{engine_pipe, sample, soil_layers};
 use crate::model::{DAY_S, Pipe, Site, YEAR_S};
+use crate::numerics::roots;
+use crate::numerics::time::HOUR_S;
 use crate::physics::frost as fp;
 
 /// Mesh and steps of the frost runs.
@@ -56,7 +58,7 @@ pub const DEFAULT_RESOLUTION: Resolution = Resolution {
         cells_across_pipe: 6,
     },
     spin_up_step_s: DAY_S,
-    winter_step_s: 6.0 * 3600.0,
+    winter_step_s: 6.0 * HOUR_S,
     half_width_m: 5.0,
     depth_m: 10.0,
 };
@@ -86,7 +88,7 @@ pub struct Winter {
 impl Winter {
     /// The winter whose season (from `season_start_s`) has the freezing index
     /// `design_index_c_days` (°C·days, TM 5-852-6 cumulative-curve definition), found by
-    /// bisection on the factor applied to the typical year's below-zero temperatures.
+    /// Brent's method on the factor applied to the typical year's below-zero temperatures.
     pub fn new(surface: SurfaceYear, season_start_s: f64, design_index_c_days: f64) -> Result<Self, String> {
         let mut w = Winter {
             surface,
@@ -108,15 +110,10 @@ impl Winter {
                 return Err("the design freezing index is far beyond the climate's winter".into());
             }
         }
-        for _ in 0..60 {
-            let mid = 0.5 * (lo + hi);
-            if w.season_index(mid)? < design_index_c_days {
-                lo = mid;
-            } else {
-                hi = mid;
-            }
-        }
-        w.scale = 0.5 * (lo + hi);
+        let excess = |scale: f64| -> Result<f64, String> { Ok(w.season_index(scale)? - design_index_c_days) };
+        let scale = roots::try_brent(excess, lo, hi, 1e-13 * hi)?
+            .ok_or("the design freezing index could not be bracketed by scaling the climate's winter")?;
+        w.scale = scale;
         Ok(w)
     }
 
@@ -357,8 +354,8 @@ pub fn board_trial(
     })
 }
 
-/// Narrowest board width in `[0, max_width]` keeping the crown at or above 0 °C: bisection over
-/// widths (the crown's lowest temperature rises with the width), each an engine run
+/// Narrowest board width in `[0, max_width]` keeping the crown at or above 0 °C: Brent's method
+/// over widths (the crown's lowest temperature rises with the width), each an engine run
 /// ([`board_trial`]), until the bracket is within [`BOARD_TOLERANCE`] of the width.
 pub fn board_search(
     site: &Site,
@@ -385,18 +382,24 @@ pub fn board_search(
             trials,
         });
     }
-    let (mut lo, mut hi) = (0.0, board.max_width_m);
-    while hi - lo > (BOARD_TOLERANCE * hi).max(0.01) {
-        let mid = 0.5 * (lo + hi);
-        if trial(mid, &mut trials)? {
-            hi = mid;
-        } else {
-            lo = mid;
+    // The crown's lowest temperature against the width, each new width one engine run (the two
+    // ends are already in `trials`).
+    let crown_min_c = |w: f64| -> Result<f64, String> {
+        if let Some(t) = trials.iter().find(|t| t.width_m == w) {
+            return Ok(t.crown_min_c);
         }
-    }
+        let t = board_trial(site, ground, pipe, board, winter, w)?;
+        trials.push(t);
+        Ok(t.crown_min_c)
+    };
+    let tolerance = |w: f64| (BOARD_TOLERANCE * w).max(0.01);
+    let bracket = roots::try_brent_bracket(crown_min_c, 0.0, board.max_width_m, tolerance)?
+        .ok_or("the board search lost its bracket; the crown temperature is not finite")?;
+    // The end that keeps the crown at or above 0 °C: the narrowest width known to be enough.
+    let width = bracket.non_negative_end();
     trials.sort_by(|a, b| a.width_m.total_cmp(&b.width_m));
     Ok(BoardSearch {
-        width_m: Some(hi),
+        width_m: Some(width),
         trials,
     })
 }

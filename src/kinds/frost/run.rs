@@ -8,6 +8,7 @@ use crate::calendar::{civil_from_days, days_from_civil};
 use crate::ground::climate::SurfaceYear;
 use crate::ground::profile::Undisturbed;
 use crate::model::{Climate, DAY_S, Method, NFactors, Pipe, PipeDrive, Site};
+use crate::numerics::time::HOUR_S;
 use crate::physics::buried_pipe::{GroundForm, Soil, ground::ground_resistance_m_k_per_w};
 use crate::physics::frost as fp;
 use crate::results::*;
@@ -226,7 +227,7 @@ fn numerical_figures(
     };
     FrostNumericalFigures {
         cells: r.cells,
-        time_step_h: DEFAULT_RESOLUTION.winter_step_s / 3600.0,
+        time_step_h: DEFAULT_RESOLUTION.winter_step_s / HOUR_S,
         spin_up_years: numerical::SPIN_UP_YEARS,
         winter_scale: winter.map_or(1.0, |w| w.scale),
         free_field_frost_depth_m: r.free_field_depth_m,
@@ -591,16 +592,16 @@ fn pipe_checks(
                 message: format!(
                     "standing water in `{}` starts to freeze after {:.0} h at the coldest ground temperature ({:.1} °C), within the {:.0} h without flow (ice fraction {:.0} %); keep a bleed flow, insulate or lay deeper",
                     pipe.id,
-                    first_ice.unwrap_or(0.0) / 3600.0,
+                    first_ice.unwrap_or(0.0) / HOUR_S,
                     ground_min,
-                    duration / 3600.0,
+                    duration / HOUR_S,
                     ice * 100.0
                 ),
             });
         }
         r.stagnant = Some(StagnantFigures {
-            duration_h: duration / 3600.0,
-            time_to_first_ice_h: first_ice.map(|t| t / 3600.0),
+            duration_h: duration / HOUR_S,
+            time_to_first_ice_h: first_ice.map(|t| t / HOUR_S),
             ice_fraction: ice,
             ground_temperature_c: ground_min,
             initial_water_temperature_c: initial,

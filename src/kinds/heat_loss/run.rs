@@ -12,15 +12,15 @@ use super::numerical::{self, Responses, TwinBody};
 use super::result::*;
 use crate::ground::profile::Undisturbed;
 use crate::model::{InsulationLaw, Method, Pipe, PipeDrive, Site};
+use crate::numerics::time::MONTH_S;
 use crate::physics::buried_pipe::seasonal::{annual_energy_kwh_per_m, monthly_pipe_states};
 use crate::physics::buried_pipe::sizing::{cheapest, present_value_factor};
 use crate::physics::buried_pipe::system::{
-    Drive, PipeSection, solve_pipes_with_insulation_laws, temperature_rise_k,
+    Drive, PipeSection, solve_pipes_with_insulation_laws, temperature_rise_k, twin_with_insulation_law,
 };
 use crate::physics::buried_pipe::twin::{TwinMethod, TwinPipe, TwinResistances};
 use crate::physics::buried_pipe::wall::{
-    LinearConductivity, WallLayer, aged_lambda50_w_per_m_k, insulation_mean_temperature_c,
-    wall_resistance_m_k_per_w,
+    LinearConductivity, WallLayer, insulation_mean_temperature_c, wall_resistance_m_k_per_w,
 };
 use crate::physics::buried_pipe::{GroundForm, Position, Soil};
 use crate::results::*;
@@ -32,9 +32,6 @@ pub const LAYER_CONTRAST: f64 = 0.2;
 
 /// Relative difference between the methods above which a caution is raised (issue contract).
 pub const CROSS_CHECK_CAUTION: f64 = 0.05;
-
-/// Reference temperature of λ50, °C (EN 253).
-const LAMBDA_REFERENCE_C: f64 = 50.0;
 
 /// The converged insulation of one pipe (or of the twin) under an EN 253 law, per month.
 #[derive(Clone, Copy, Debug)]
@@ -234,13 +231,9 @@ fn fluid_monthly(p: &Pipe) -> [f64; 12] {
     }
 }
 
-/// The EN 253 law as a line in temperature: the aged λ50 at 50 °C and the slope.
+/// The EN 253 law of the site file ([`LinearConductivity::en253`]).
 fn linear_law(law: &InsulationLaw) -> Result<LinearConductivity, String> {
-    LinearConductivity::new(
-        aged_lambda50_w_per_m_k(law.lambda_50_w_per_m_k, law.ageing)?,
-        LAMBDA_REFERENCE_C,
-        law.slope_w_per_m_k2,
-    )
+    LinearConductivity::en253(law.lambda_50_w_per_m_k, law.ageing, law.slope_w_per_m_k2)
 }
 
 /// The analytic monthly losses of the study's pipes, or of its twin pipe.
@@ -337,40 +330,32 @@ fn twin_pipe(t: &TwinCasing, carrier: &Pipe, insulation_w_per_m_k: f64) -> Resul
 type TwinMonth = ([f64; 2], TwinResistances, Option<(f64, f64)>);
 
 /// One month of a twin pipe: Wallentén's first-order formulas ([`TwinMethod::FirstOrder`], the
-/// EN 15698-1 form). With an EN 253 law the insulation conductivity is iterated to its value at
-/// the mean insulation temperature: the mean of the carriers' outer surfaces (fluid less the
-/// carrier wall's drop) and the casing's inner face (undisturbed ground plus the total loss
-/// through casing and ground). Returns the rates `[q_s, q_r]`, the resistances and, with a law,
-/// `(λ, mean temperature)`.
+/// EN 15698-1 form), with an EN 253 law settled by [`twin_with_insulation_law`]. Returns the
+/// rates `[q_s, q_r]`, the resistances and, with a law, `(λ, mean temperature)`.
 fn twin_month(
     t: &TwinCasing,
     carrier: &Pipe,
     law: Option<&LinearConductivity>,
-    (supply_c, return_c, ground_c): (f64, f64, f64),
+    temperatures_c: (f64, f64, f64),
     soil: &Soil,
 ) -> Result<TwinMonth, String> {
-    let mut lambda = match law {
-        Some(l) => l.at(LAMBDA_REFERENCE_C)?,
-        None => t.insulation_conductivity_w_per_m_k,
-    };
-    for _ in 0..100 {
-        let pipe = twin_pipe(t, carrier, lambda)?;
-        let res = pipe.resistances(soil, GroundForm::Exact, TwinMethod::FirstOrder)?;
-        let q = res.heat_rates_w_per_m(supply_c, return_c, ground_c)?;
-        let Some(law) = law else {
-            return Ok((q, res, None));
-        };
-        let r_p = pipe.carrier_wall_resistance_m_k_per_w;
-        let carriers_c = 0.5 * ((supply_c - q[0] * r_p) + (return_c - q[1] * r_p));
-        let casing_inner_c = ground_c + (q[0] + q[1]) * (res.casing_m_k_per_w + res.ground_m_k_per_w);
-        let mean_c = insulation_mean_temperature_c(carriers_c, casing_inner_c);
-        let next = law.at(mean_c)?;
-        if (next - lambda).abs() < 1e-9 {
-            return Ok((q, res, Some((next, mean_c))));
+    let (form, method) = (GroundForm::Exact, TwinMethod::FirstOrder);
+    let pipe = twin_pipe(t, carrier, t.insulation_conductivity_w_per_m_k)?;
+    match law {
+        None => {
+            let res = pipe.resistances(soil, form, method)?;
+            let (supply_c, return_c, ground_c) = temperatures_c;
+            Ok((res.heat_rates_w_per_m(supply_c, return_c, ground_c)?, res, None))
         }
-        lambda = next;
+        Some(law) => {
+            let s = twin_with_insulation_law(&pipe, law, temperatures_c, soil, form, method)?;
+            Ok((
+                s.heat_w_per_m,
+                s.resistances,
+                Some((s.insulation_w_per_m_k, s.insulation_mean_c)),
+            ))
+        }
     }
-    Err("the temperature-dependent insulation conductivity of the twin pipe did not settle; check the slope of its law".into())
 }
 
 fn twin_losses(
@@ -677,7 +662,7 @@ fn field(study: &HeatLoss, ground: &Undisturbed, losses: &Losses, soil: &Soil) -
         .collect();
     let (sources, radii, monthly) = sources(study, losses);
     let q: Vec<f64> = monthly.iter().map(|x| x[month]).collect();
-    let t_mid = (month as f64 + 0.5) * 365.0 / 12.0 * crate::model::DAY_S;
+    let t_mid = (month as f64 + 0.5) * MONTH_S;
     let values_c = z_m
         .iter()
         .map(|&z| {

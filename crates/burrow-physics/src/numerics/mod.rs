@@ -3,6 +3,7 @@
 //! core (materials, physics, engine) and every study uses these rather than its own copy.
 
 pub mod checks;
+pub mod dense;
 pub mod roots;
 pub mod special;
 pub mod time;

@@ -43,10 +43,10 @@
 //! [`effective_resistance_uniform_flux`] and [`effective_resistance_uniform_wall_temperature`].
 
 use crate::numerics::checks::positive;
-use nalgebra::{Complex, DMatrix, DVector};
+use crate::numerics::dense::DenseLu;
 use std::f64::consts::PI;
 
-type C64 = Complex<f64>;
+type C64 = faer::c64;
 
 /// Highest multipole order accepted (higher orders gain nothing measurable in double precision).
 pub const MAX_MULTIPOLE_ORDER: usize = 20;
@@ -90,13 +90,15 @@ pub struct BoreholeResistances {
 /// The steady resistance matrix of a cross-section: `T_f − T_b = R q`, m K/W.
 #[derive(Clone, Debug, PartialEq)]
 pub struct ResistanceMatrix {
-    pub matrix_m_k_per_w: DMatrix<f64>,
+    /// `matrix_m_k_per_w[i][j]` = R_ij, row i the fluid temperature of pipe i, column j the heat
+    /// flow of pipe j.
+    pub matrix_m_k_per_w: Vec<Vec<f64>>,
 }
 
 impl ResistanceMatrix {
     /// R_b with every pipe at the same fluid temperature: 1/(1ᵀ R⁻¹ 1).
     pub fn borehole_resistance_m_k_per_w(&self) -> Result<f64, String> {
-        let n = self.matrix_m_k_per_w.nrows();
+        let n = self.matrix_m_k_per_w.len();
         let (a, _, _) = self.group_conductances(&(0..n).collect::<Vec<_>>(), &[])?;
         Ok(1.0 / a)
     }
@@ -117,9 +119,10 @@ impl ResistanceMatrix {
     }
 
     /// Conductances of two pipe groups: a = 1_Dᵀ K 1_D, b = 1_Uᵀ K 1_U, c = 1_Dᵀ K 1_U with
-    /// K = R⁻¹ (symmetrised).
+    /// K = R⁻¹ (R symmetrised), from the two solves K 1_D and K 1_U.
     fn group_conductances(&self, down: &[usize], up: &[usize]) -> Result<(f64, f64, f64), String> {
-        let n = self.matrix_m_k_per_w.nrows();
+        let r = &self.matrix_m_k_per_w;
+        let n = r.len();
         let mut seen = vec![false; n];
         for &i in down.iter().chain(up) {
             if i >= n || seen[i] {
@@ -132,17 +135,24 @@ impl ResistanceMatrix {
         if down.is_empty() {
             return Err("the downward group has no pipe; name at least one".into());
         }
-        let symmetric = (&self.matrix_m_k_per_w + self.matrix_m_k_per_w.transpose()) * 0.5;
-        let k = symmetric
-            .try_inverse()
+        if r.iter().any(|row| row.len() != n) {
+            return Err(format!(
+                "the resistance matrix is not square; give {n} values in each of its {n} rows"
+            ));
+        }
+        let symmetric: Vec<f64> = (0..n)
+            .flat_map(|i| (0..n).map(move |j| 0.5 * (r[i][j] + r[j][i])))
+            .collect();
+        let lu = DenseLu::new(n, &symmetric)
             .ok_or("the resistance matrix is singular; check that the pipes do not overlap")?;
-        let sum = |g: &[usize], h: &[usize]| {
-            g.iter()
-                .flat_map(|&i| h.iter().map(move |&j| (i, j)))
-                .map(|(i, j)| k[(i, j)])
-                .sum::<f64>()
+        let indicator = |g: &[usize]| {
+            let mut v = vec![0.0; n];
+            g.iter().for_each(|&i| v[i] = 1.0);
+            v
         };
-        Ok((sum(down, down), sum(up, up), sum(down, up)))
+        let (k_down, k_up) = (lu.solve(&indicator(down)), lu.solve(&indicator(up)));
+        let sum = |g: &[usize], k: &[f64]| g.iter().map(|&i| k[i]).sum::<f64>();
+        Ok((sum(down, &k_down), sum(up, &k_up), sum(down, &k_up)))
     }
 }
 
@@ -215,13 +225,13 @@ impl CrossSection {
         }
         let n_pipes = self.pipes.len();
         let solver = MultipoleSystem::new(self, order)?;
-        let mut r = DMatrix::zeros(n_pipes, n_pipes);
+        let mut r = vec![vec![0.0; n_pipes]; n_pipes];
         for j in 0..n_pipes {
             let mut q = vec![0.0; n_pipes];
             q[j] = 1.0;
             let multipoles = solver.solve(&q);
-            for i in 0..n_pipes {
-                r[(i, j)] = self.fluid_temperature_rise(i, &q, &multipoles, order);
+            for (i, row) in r.iter_mut().enumerate() {
+                row[j] = self.fluid_temperature_rise(i, &q, &multipoles, order);
             }
         }
         Ok(ResistanceMatrix { matrix_m_k_per_w: r })
@@ -320,7 +330,7 @@ fn binomial(n: usize, k: usize) -> f64 {
 struct MultipoleSystem<'a> {
     section: &'a CrossSection,
     order: usize,
-    lu: Option<nalgebra::LU<f64, nalgebra::Dyn, nalgebra::Dyn>>,
+    lu: Option<DenseLu>,
 }
 
 impl<'a> MultipoleSystem<'a> {
@@ -335,7 +345,8 @@ impl<'a> MultipoleSystem<'a> {
             });
         }
         let zero_q = vec![0.0; n_pipes];
-        let mut matrix = DMatrix::zeros(size, size);
+        // Row-major: row 2·(equation) + {0: real, 1: imaginary part}.
+        let mut matrix = vec![0.0; size * size];
         let mut unit = vec![C64::new(0.0, 0.0); n_pipes * order];
         for col in 0..size {
             unit.iter_mut().for_each(|u| *u = C64::new(0.0, 0.0));
@@ -346,16 +357,12 @@ impl<'a> MultipoleSystem<'a> {
             };
             let residual = Self::residual(section, order, &zero_q, &unit);
             for (row, value) in residual.iter().enumerate() {
-                matrix[(2 * row, col)] = value.re;
-                matrix[(2 * row + 1, col)] = value.im;
+                matrix[2 * row * size + col] = value.re;
+                matrix[(2 * row + 1) * size + col] = value.im;
             }
         }
-        let lu = matrix.lu();
-        if !lu.is_invertible() {
-            return Err(
-                "the multipole equations are singular for this layout; check the pipe geometry".into(),
-            );
-        }
+        let lu = DenseLu::new(size, &matrix)
+            .ok_or("the multipole equations are singular for this layout; check the pipe geometry")?;
         Ok(Self {
             section,
             order,
@@ -384,10 +391,9 @@ impl<'a> MultipoleSystem<'a> {
         };
         let zero = vec![C64::new(0.0, 0.0); q.len() * self.order];
         let constant = Self::residual(self.section, self.order, q, &zero);
-        let rhs = DVector::from_iterator(2 * constant.len(), constant.iter().flat_map(|c| [-c.re, -c.im]));
-        // The matrix was checked invertible in `new`.
-        let x = lu.solve(&rhs).unwrap_or_else(|| DVector::zeros(rhs.len()));
-        x.as_slice().chunks(2).map(|c| C64::new(c[0], c[1])).collect()
+        let rhs: Vec<f64> = constant.iter().flat_map(|c| [-c.re, -c.im]).collect();
+        let x = lu.solve(&rhs);
+        x.chunks(2).map(|c| C64::new(c[0], c[1])).collect()
     }
 }
 

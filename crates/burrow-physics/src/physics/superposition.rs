@@ -24,7 +24,7 @@ use rustfft::{Fft, FftPlanner, num_complex::Complex};
 use std::sync::{Arc, Mutex, OnceLock};
 
 /// Length of one model month: a 365-day year divided into twelve equal months (730 h), s.
-pub const MONTH_S: f64 = 365.0 * 86_400.0 / 12.0;
+pub use crate::numerics::time::MONTH_S;
 
 /// Cells per level used by default in the load aggregation: 16 keeps the error below 0.05 K over
 /// 25 years of hourly loads (measured in `tests/superposition.rs`: 0.035 K; 8 cells gave 0.057 K).

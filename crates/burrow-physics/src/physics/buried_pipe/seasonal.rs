@@ -7,9 +7,10 @@
 use super::system::{Drive, PipeSection, PipeState, resistance_matrix, solve_with_matrix};
 use super::twin::TwinResistances;
 use super::{GroundForm, Soil, finite};
+use crate::numerics::time::{HOUR_S, MONTH_S};
 
-/// Hours in one month: 365/12 days × 24 h = 730 h.
-pub const MONTH_HOURS: f64 = 365.0 / 12.0 * 24.0;
+/// Hours in one month: 365/12 days × 24 h = 730 h ([`MONTH_S`] in hours).
+pub const MONTH_HOURS: f64 = MONTH_S / HOUR_S;
 
 /// Annual energy per metre, kWh/m: `Σ_months q_m·730 h / 1000` for twelve monthly mean heat
 /// rates `monthly_w_per_m` (W/m).

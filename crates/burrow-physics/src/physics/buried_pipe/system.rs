@@ -1,9 +1,11 @@
 //! Any number of pipes in one cross-section: the resistance matrix, the coupled heat rates, the
-//! closed form for a supply/return pair, and the soil temperature at a neighbouring point.
+//! closed form for a supply/return pair, the soil temperature at a neighbouring point, and the
+//! fixed point of an EN 253 insulation law for separate pipes and for a twin pipe.
 
 use super::ground::{
     ground_resistance_m_k_per_w, line_source_rise_k_per_w_per_m, mutual_resistance_m_k_per_w,
 };
+use super::twin::{TwinMethod, TwinPipe, TwinResistances};
 use super::wall::{
     LinearConductivity, WallLayer, face_temperatures_c, inner_radius_m, wall_resistance_m_k_per_w,
 };
@@ -256,11 +258,48 @@ pub fn temperature_rise_k(
     Ok(rise)
 }
 
-/// [`solve_pipes`] with a temperature-dependent insulation: `insulation[i] = Some((layer, law))`
-/// makes layer `layer` of pipe `i` follow `law` at its mean temperature
-/// ([`super::wall::insulation_mean_temperature_c`], faces from [`face_temperatures_c`]).
-/// Fixed-point iteration until λ changes by < 1e-9 W/(m K) (at most 100 passes). Returns the
-/// states and the converged conductivities (`None` where no law was given).
+/// Largest change of an insulation conductivity between two passes at which the EN 253 fixed
+/// point counts as settled, W/(m K).
+pub const INSULATION_LAW_TOLERANCE_W_PER_M_K: f64 = 1e-9;
+
+/// Passes of the EN 253 fixed point before it counts as not settling.
+const INSULATION_LAW_PASSES: usize = 100;
+
+/// The fixed point `λ = law(T_mean(λ))` of EN 253 practice (the foam's conductivity taken at its
+/// mean temperature) for one or more insulations at once, by direct iteration: `pass(λ)` solves
+/// the heat flow with the conductivities `λ` (W/(m K)) and returns its state and the conductivities
+/// the laws give at the resulting mean insulation temperatures. Starts from `start_w_per_m_k`
+/// and stops when no conductivity changes by [`INSULATION_LAW_TOLERANCE_W_PER_M_K`] or more
+/// (at most 100 passes). Returns the last state (solved with the previous conductivities, which
+/// differ from the returned ones by less than the tolerance) and the settled conductivities;
+/// `None` when the iteration does not settle.
+fn settle_insulation_laws<S>(
+    start_w_per_m_k: Vec<f64>,
+    mut pass: impl FnMut(&[f64]) -> Result<(S, Vec<f64>), String>,
+) -> Result<Option<(S, Vec<f64>)>, String> {
+    let mut lambda = start_w_per_m_k;
+    for _ in 0..INSULATION_LAW_PASSES {
+        let (state, next) = pass(&lambda)?;
+        let change = lambda
+            .iter()
+            .zip(&next)
+            .map(|(now, then)| (then - now).abs())
+            .fold(0.0, f64::max);
+        if change < INSULATION_LAW_TOLERANCE_W_PER_M_K {
+            return Ok(Some((state, next)));
+        }
+        lambda = next;
+    }
+    Ok(None)
+}
+
+/// [`solve_pipes`] with a temperature-dependent insulation (EN 253 practice: λ at the layer's
+/// mean temperature): `insulation[i] = Some((layer, law))` makes layer `layer` of pipe `i` follow
+/// `law` at its mean temperature ([`super::wall::insulation_mean_temperature_c`] of the layer's
+/// faces from [`face_temperatures_c`], °C). Fixed-point iteration from λ at the law's reference
+/// temperature until λ changes by < 1e-9 W/(m K) (at most 100 passes). Returns the states (heat
+/// rates W/m, fluid temperatures °C) and the converged conductivities, W/(m K) (`None` where no
+/// law was given).
 pub fn solve_pipes_with_insulation_laws(
     pipes: &[PipeSection],
     insulation: &[Option<(usize, LinearConductivity)>],
@@ -272,41 +311,163 @@ pub fn solve_pipes_with_insulation_laws(
     if insulation.len() != pipes.len() {
         return Err("give one insulation entry (or none) per pipe".into());
     }
+    // (pipe, layer, law) of every insulation with a law.
+    let with_law: Vec<(usize, usize, LinearConductivity)> = insulation
+        .iter()
+        .enumerate()
+        .filter_map(|(i, entry)| entry.map(|(layer, law)| (i, layer, law)))
+        .collect();
+    if let Some((_, layer, _)) = with_law
+        .iter()
+        .find(|(i, layer, _)| *layer >= pipes[*i].layers.len())
+    {
+        return Err(format!(
+            "the insulation layer index {layer} is beyond the pipe's layers"
+        ));
+    }
+    let start = with_law
+        .iter()
+        .map(|(_, _, law)| law.at(law.reference_c))
+        .collect::<Result<Vec<_>, _>>()?;
     let mut current: Vec<PipeSection> = pipes.to_vec();
-    for (pipe, entry) in current.iter_mut().zip(insulation) {
-        if let Some((layer, law)) = entry {
-            let Some(l) = pipe.layers.get_mut(*layer) else {
-                return Err(format!(
-                    "the insulation layer index {layer} is beyond the pipe's layers"
-                ));
-            };
-            l.conductivity_w_per_m_k = law.at(law.reference_c)?;
+    let settled = settle_insulation_laws(start, |lambda| {
+        for (&(i, layer, _), &l) in with_law.iter().zip(lambda) {
+            current[i].layers[layer].conductivity_w_per_m_k = l;
         }
-    }
-    for _ in 0..100 {
         let states = solve_pipes(&current, drives, undisturbed_c, soil, form)?;
-        let mut change: f64 = 0.0;
-        for ((pipe, entry), state) in current.iter_mut().zip(insulation).zip(&states) {
-            let Some((layer, law)) = entry else { continue };
-            let faces = face_temperatures_c(
-                state.fluid_c,
-                state.heat_w_per_m,
-                pipe.inner_radius_m()?,
-                &pipe.layers,
-            )?;
-            let t_mean = super::wall::insulation_mean_temperature_c(faces[*layer], faces[*layer + 1]);
-            let lambda = law.at(t_mean)?;
-            change = change.max((lambda - pipe.layers[*layer].conductivity_w_per_m_k).abs());
-            pipe.layers[*layer].conductivity_w_per_m_k = lambda;
-        }
-        if change < 1e-9 {
-            let lambdas = current
-                .iter()
-                .zip(insulation)
-                .map(|(p, e)| e.map(|(layer, _)| p.layers[layer].conductivity_w_per_m_k))
-                .collect();
-            return Ok((states, lambdas));
+        let next = with_law
+            .iter()
+            .map(|&(i, layer, law)| {
+                let pipe = &current[i];
+                let faces = face_temperatures_c(
+                    states[i].fluid_c,
+                    states[i].heat_w_per_m,
+                    pipe.inner_radius_m()?,
+                    &pipe.layers,
+                )?;
+                law.at(super::wall::insulation_mean_temperature_c(
+                    faces[layer],
+                    faces[layer + 1],
+                ))
+            })
+            .collect::<Result<Vec<_>, _>>()?;
+        Ok((states, next))
+    })?;
+    let Some((states, lambda)) = settled else {
+        return Err(
+            "the temperature-dependent insulation conductivity did not settle; check the slope of the law"
+                .into(),
+        );
+    };
+    let mut lambdas = vec![None; pipes.len()];
+    for (&(i, _, _), l) in with_law.iter().zip(lambda) {
+        lambdas[i] = Some(l);
+    }
+    Ok((states, lambdas))
+}
+
+/// A twin pipe whose insulation follows an EN 253 law, settled.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct TwinUnderLaw {
+    /// `[q_supply, q_return]`, W/m (positive into the ground).
+    pub heat_w_per_m: [f64; 2],
+    /// The resistances at the settled conductivity, m K/W.
+    pub resistances: TwinResistances,
+    /// The settled insulation conductivity, W/(m K).
+    pub insulation_w_per_m_k: f64,
+    /// The mean insulation temperature it belongs to, °C.
+    pub insulation_mean_c: f64,
+}
+
+/// Heat rates of a twin pipe whose insulation follows an EN 253 law (EN 253 practice: the foam's
+/// conductivity at its mean temperature, λ50 at 50 °C): the fixed point `λ = law(T_mean)` with
+/// `T_mean` the mean ([`super::wall::insulation_mean_temperature_c`]) of the carriers' outer
+/// surfaces (each fluid temperature less its carrier wall's drop `q·R_p`) and of the casing's
+/// inner face (the undisturbed ground plus the total loss through casing and ground), iterated
+/// as in [`solve_pipes_with_insulation_laws`] from λ at the law's reference temperature.
+/// `twin.insulation_conductivity_w_per_m_k` is replaced by the law's value. Temperatures
+/// `(supply, return, undisturbed ground at the casing's depth)` in °C.
+pub fn twin_with_insulation_law(
+    twin: &TwinPipe,
+    law: &LinearConductivity,
+    (supply_c, return_c, ground_c): (f64, f64, f64),
+    soil: &Soil,
+    form: GroundForm,
+    method: TwinMethod,
+) -> Result<TwinUnderLaw, String> {
+    let settled = settle_insulation_laws(vec![law.at(law.reference_c)?], |lambda| {
+        let pipe = TwinPipe {
+            insulation_conductivity_w_per_m_k: lambda[0],
+            ..*twin
+        };
+        let resistances = pipe.resistances(soil, form, method)?;
+        let q = resistances.heat_rates_w_per_m(supply_c, return_c, ground_c)?;
+        let r_p = pipe.carrier_wall_resistance_m_k_per_w;
+        let carriers_c = 0.5 * ((supply_c - q[0] * r_p) + (return_c - q[1] * r_p));
+        let casing_inner_c =
+            ground_c + (q[0] + q[1]) * (resistances.casing_m_k_per_w + resistances.ground_m_k_per_w);
+        let mean_c = super::wall::insulation_mean_temperature_c(carriers_c, casing_inner_c);
+        Ok(((q, resistances, mean_c), vec![law.at(mean_c)?]))
+    })?;
+    let Some(((heat_w_per_m, resistances, insulation_mean_c), lambda)) = settled else {
+        return Err("the temperature-dependent insulation conductivity of the twin pipe did not settle; check the slope of its law".into());
+    };
+    Ok(TwinUnderLaw {
+        heat_w_per_m,
+        resistances,
+        insulation_w_per_m_k: lambda[0],
+        insulation_mean_c,
+    })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::physics::buried_pipe::DEFAULT_SURFACE_RESISTANCE_M2_K_PER_W;
+
+    fn twin(insulation_w_per_m_k: f64) -> TwinPipe {
+        TwinPipe {
+            centre: Position::new(0.0, 0.8),
+            casing_outer_radius_m: 0.14,
+            casing_thickness_m: 0.004,
+            casing_conductivity_w_per_m_k: 0.4,
+            insulation_conductivity_w_per_m_k: insulation_w_per_m_k,
+            carrier_outer_radius_m: 0.04445,
+            carrier_spacing_m: 0.12,
+            carrier_wall_resistance_m_k_per_w: 1e-4,
         }
     }
-    Err("the temperature-dependent insulation conductivity did not settle; check the slope of the law".into())
+
+    #[test]
+    fn a_twin_pipes_law_settles_at_its_mean_insulation_temperature() {
+        // EN 253 practice (λ at the foam's mean temperature): the settled λ is the law at the mean
+        // of the carriers' surfaces and the casing's inner face, worked out here from the
+        // returned rates; with no slope the law is the constant λ50 and the plain twin results.
+        let soil = Soil::new(1.5, DEFAULT_SURFACE_RESISTANCE_M2_K_PER_W).unwrap();
+        let (form, method) = (GroundForm::Exact, TwinMethod::FirstOrder);
+        let temperatures = (80.0, 45.0, 8.0);
+        let law = LinearConductivity::en253(0.024, 0.2, 1e-4).unwrap();
+        let s = twin_with_insulation_law(&twin(0.03), &law, temperatures, &soil, form, method).unwrap();
+        let [q_s, q_r] = s.heat_w_per_m;
+        let carriers = 0.5 * ((80.0 - q_s * 1e-4) + (45.0 - q_r * 1e-4));
+        let casing = 8.0 + (q_s + q_r) * (s.resistances.casing_m_k_per_w + s.resistances.ground_m_k_per_w);
+        let mean = 0.5 * (carriers + casing);
+        assert!(
+            (s.insulation_mean_c - mean).abs() < 1e-6,
+            "{} vs {mean}",
+            s.insulation_mean_c
+        );
+        assert!((s.insulation_w_per_m_k - law.at(mean).unwrap()).abs() < 1e-8);
+        let plain = twin(s.insulation_w_per_m_k)
+            .resistances(&soil, form, method)
+            .unwrap();
+        let q = plain.heat_rates_w_per_m(80.0, 45.0, 8.0).unwrap();
+        assert!(((q[0] + q[1]) / (q_s + q_r) - 1.0).abs() < 1e-7);
+
+        let flat = LinearConductivity::en253(0.026, 0.0, 0.0).unwrap();
+        let s = twin_with_insulation_law(&twin(0.03), &flat, temperatures, &soil, form, method).unwrap();
+        let plain = twin(0.026).resistances(&soil, form, method).unwrap();
+        assert_eq!(s.heat_w_per_m, plain.heat_rates_w_per_m(80.0, 45.0, 8.0).unwrap());
+        assert_eq!(s.insulation_w_per_m_k, 0.026);
+    }
 }

@@ -108,6 +108,10 @@ pub fn insulation_mean_temperature_c(inner_face_c: f64, outer_face_c: f64) -> f6
     0.5 * (inner_face_c + outer_face_c)
 }
 
+/// Reference temperature of λ50, °C (EN 253: the conductivity of the foam at a mean temperature
+/// of 50 °C).
+pub const LAMBDA50_REFERENCE_C: f64 = 50.0;
+
 /// Insulation conductivity linear in temperature, `λ(T) = λ_ref + s·(T − T_ref)`
 /// (the form used with EN 253 test results, e.g. `λ_ref` = λ50 at `T_ref` = 50 °C).
 #[derive(Clone, Copy, Debug, PartialEq)]
@@ -135,6 +139,21 @@ impl LinearConductivity {
             reference_c,
             slope_w_per_m_k2,
         })
+    }
+
+    /// The EN 253 design law: the aged λ50 ([`aged_lambda50_w_per_m_k`] of the fresh λ50, W/(m K),
+    /// and the ageing allowance, a fraction) at [`LAMBDA50_REFERENCE_C`], with the slope dλ/dT in
+    /// W/(m K²).
+    pub fn en253(
+        fresh_lambda50_w_per_m_k: f64,
+        ageing_allowance: f64,
+        slope_w_per_m_k2: f64,
+    ) -> Result<Self, String> {
+        Self::new(
+            aged_lambda50_w_per_m_k(fresh_lambda50_w_per_m_k, ageing_allowance)?,
+            LAMBDA50_REFERENCE_C,
+            slope_w_per_m_k2,
+        )
     }
 
     /// λ at the mean insulation temperature `t_c` (°C), W/(m K); an error when the line gives

@@ -1,14 +1,13 @@
 //! Solution of the dense bordered systems of the uniform-wall-temperature g-function.
 //!
 //! Each time step has its own matrix (the step lengths differ), but consecutive matrices are
-//! close. Small systems are factorised (LU with partial pivoting, faer) at every step. Larger
+//! close. Small systems are factorised (`numerics::dense`, LU with partial pivoting) at every step. Larger
 //! ones are solved by GMRES (Saad & Schultz 1986, with modified Gram–Schmidt and Givens
 //! rotations) right-preconditioned by the LU factors of an earlier step's matrix; the factors
 //! are renewed when GMRES needs many iterations, and a direct solve is the fallback when it
 //! does not converge.
 
-use faer::Mat;
-use faer::linalg::solvers::{PartialPivLu, Solve};
+use crate::numerics::dense::DenseLu;
 use rayon::prelude::*;
 
 /// Below this size every step is factorised directly.
@@ -19,9 +18,11 @@ const MAX_ITERATIONS: usize = 60;
 const RENEW_AFTER: usize = 25;
 /// Relative residual asked of GMRES.
 const TOLERANCE: f64 = 1e-12;
+/// The error when a step's matrix cannot be factorised.
+const SINGULAR: &str = "the segment system of the uniform-wall-temperature g-function is singular; check that no two boreholes coincide";
 
 pub(crate) struct StepSolver {
-    factors: Option<PartialPivLu<f64>>,
+    factors: Option<DenseLu>,
     /// Number of LU factorisations and GMRES iterations done (for the benchmark's report).
     pub factorisations: usize,
     pub iterations: usize,
@@ -44,33 +45,31 @@ impl StepSolver {
             self.iterations += iterations;
             if converged {
                 if iterations > RENEW_AFTER {
-                    self.factorise(matrix, n);
+                    self.factorise(matrix, n)?;
                 }
                 return Ok(x);
             }
         }
-        self.factorise(matrix, n);
+        self.factorise(matrix, n)?;
         let x = self.precondition(rhs);
         if x.iter().all(|v| v.is_finite()) {
             Ok(x)
         } else {
-            Err("the segment system of the uniform-wall-temperature g-function is singular; check that no two boreholes coincide".into())
+            Err(SINGULAR.into())
         }
     }
 
-    fn factorise(&mut self, matrix: &[f64], n: usize) {
-        let a = Mat::<f64>::from_fn(n, n, |i, j| matrix[i * n + j]);
-        self.factors = Some(PartialPivLu::new(a.as_ref()));
+    fn factorise(&mut self, matrix: &[f64], n: usize) -> Result<(), String> {
         self.factorisations += 1;
+        self.factors = Some(DenseLu::new(n, matrix).ok_or(SINGULAR)?);
+        Ok(())
     }
 
     fn precondition(&self, v: &[f64]) -> Vec<f64> {
-        let Some(lu) = &self.factors else {
-            return v.to_vec();
-        };
-        let b = Mat::<f64>::from_fn(v.len(), 1, |i, _| v[i]);
-        let x = lu.solve(&b);
-        (0..v.len()).map(|i| x[(i, 0)]).collect()
+        match &self.factors {
+            Some(lu) => lu.solve(v),
+            None => v.to_vec(),
+        }
     }
 
     /// Right-preconditioned GMRES from x0 = P⁻¹·rhs; returns (x, iterations, converged).
