@@ -264,7 +264,7 @@ fn inputs(site: &Site) -> Markup {
             Climate::Series(s) => {
                 p {
                     "Measured air temperatures from " code { (s.source) } ": " (s.air_c.len())
-                    " records at " (s.step_s / 3600.0) " h steps from day " (s.start_day_of_year.floor())
+                    " records at " (s.step_s / crate::numerics::time::HOUR_S) " h steps from day " (s.start_day_of_year.floor())
                     " of " (s.start_year) "; n-factors freezing " (s.n_factors.freezing)
                     ", thawing " (s.n_factors.thawing)
                     ". The undisturbed ground uses the mean year of the record."

@@ -6,6 +6,7 @@
 //! separated by commas (or semicolons); surrounding blanks and double quotes are ignored.
 
 use crate::calendar::days_from_civil;
+use crate::numerics::time::{DAY_S, HOUR_S};
 use std::path::Path;
 
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -105,7 +106,7 @@ pub fn parse(text: &str, name: &str, column: Option<&str>, unit: TemperatureUnit
         let t: f64 = value.parse().ok().filter(|t: &f64| t.is_finite()).ok_or_else(|| {
             format!("line {n} of `{name}`: `{value}` in column `{}` is not a temperature (a finite number is needed; fill gaps before use)", headers[col])
         })?;
-        let time = days as f64 * 86_400.0 + secs;
+        let time = days as f64 * DAY_S + secs;
         if let (Some(&prev), Some(&prev2)) = (
             times.last(),
             times.len().checked_sub(2).and_then(|k| times.get(k)),
@@ -114,17 +115,17 @@ pub fn parse(text: &str, name: &str, column: Option<&str>, unit: TemperatureUnit
             if (time - prev - step).abs() > 1.0 {
                 return Err(format!(
                     "line {n} of `{name}`: the records are not evenly spaced (a step of {} h after steps of {} h); fill the gap or remove the duplicate",
-                    (time - prev) / 3600.0,
-                    step / 3600.0
+                    (time - prev) / HOUR_S,
+                    step / HOUR_S
                 ));
             }
         } else if let Some(&prev) = times.last()
-            && time - prev != 86_400.0
+            && time - prev != DAY_S
             && time - prev != 3_600.0
         {
             return Err(format!(
                 "line {n} of `{name}`: records must be one day or one hour apart, but this one follows the previous by {} h",
-                (time - prev) / 3600.0
+                (time - prev) / HOUR_S
             ));
         }
         times.push(time);
@@ -136,19 +137,19 @@ pub fn parse(text: &str, name: &str, column: Option<&str>, unit: TemperatureUnit
         ));
     }
     let step_s = times[1] - times[0];
-    let per_year = (365.0 * 86_400.0 / step_s).round() as usize;
+    let per_year = (crate::numerics::time::YEAR_S / step_s).round() as usize;
     if temps.len() < per_year {
         return Err(format!(
             "the temperature file `{name}` covers less than one year ({} records at {} h); give at least a whole year",
             temps.len(),
-            step_s / 3600.0
+            step_s / HOUR_S
         ));
     }
     let first = first_date.unwrap_or_default();
     let (y, m, d) = parse_date(&first).unwrap_or((1970, 1, 1));
     let start_day = (days_from_civil(y, m, d) - days_from_civil(y, 1, 1)) as f64
         + 1.0
-        + (times[0].rem_euclid(86_400.0)) / 86_400.0;
+        + (times[0].rem_euclid(DAY_S)) / DAY_S;
     Ok(Series {
         start_year: y,
         start_day_of_year: start_day,
@@ -201,13 +202,13 @@ fn parse_stamp(s: &str) -> Option<(i64, f64)> {
         if !(0.0..24.0).contains(&h) || !(0.0..60.0).contains(&min) || !(0.0..61.0).contains(&sec) {
             return None;
         }
-        h * 3600.0 + min * 60.0 + sec
+        h * HOUR_S + min * 60.0 + sec
     };
     Some((days_from_civil(y, m, d), secs))
 }
 
 /// Hours in the load file of a borefield: one model year.
-pub const HOURS_PER_YEAR: usize = 8760;
+pub use crate::numerics::time::HOURS_PER_YEAR;
 
 /// Reads a file of 8760 hourly ground loads in W (first column; an optional header row; `#`
 /// comments and blank lines skipped). The error is one sentence that names the file and line.
@@ -273,7 +274,7 @@ mod tests {
     #[test]
     fn a_daily_year_is_read_with_its_step() {
         let s = parse(&daily(365), "w.csv", None, TemperatureUnit::Celsius).unwrap();
-        assert_eq!(s.step_s, 86_400.0);
+        assert_eq!(s.step_s, DAY_S);
         assert_eq!(s.air_c.len(), 365);
         assert_eq!(s.start_day_of_year, 1.0);
     }
