@@ -157,7 +157,7 @@ fn hourly_constant_load_matches_the_monthly_path() {
             m.months[k].mean_c
         );
     }
-    assert!((h.annual_loads.extracted_mwh - 4.0 * 8.76).abs() < 1e-9);
+    assert!((h.annual_loads.from_ground_mwh - 4.0 * 8.76).abs() < 1e-9);
 }
 
 /// Building loads become ground loads by the heat pump's energy balance: 100 MWh of heating at
@@ -183,14 +183,14 @@ fn building_loads_become_ground_loads_by_cop_and_eer() {
     let r = run(&text);
     let b = borefield(&r, 0);
     assert!(
-        (b.annual_loads.extracted_mwh - 75.0).abs() < 1e-9,
+        (b.annual_loads.from_ground_mwh - 75.0).abs() < 1e-9,
         "{}",
-        b.annual_loads.extracted_mwh
+        b.annual_loads.from_ground_mwh
     );
     assert!(
-        (b.annual_loads.injected_mwh - 50.0).abs() < 1e-9,
+        (b.annual_loads.to_ground_mwh - 50.0).abs() < 1e-9,
         "{}",
-        b.annual_loads.injected_mwh
+        b.annual_loads.to_ground_mwh
     );
     assert_eq!(
         burrow::kinds::borefield::run::ground_from_building(100.0, 40.0, 4.0, 4.0),
@@ -272,7 +272,13 @@ fn sizing_study(scale: f64) -> String {
 fn sized_length_meets_the_governing_limit_and_grows_with_the_load() {
     let r = run(&sizing_study(1.0));
     let b = borefield(&r, 0);
-    assert_eq!(b.governing_limit.as_deref(), Some("min_fluid"));
+    assert_eq!(b.decided_by.as_deref(), Some("cold-side"));
+    assert!(
+        b.decision
+            .as_deref()
+            .unwrap()
+            .starts_with("the mean fluid temperature at the extraction peak decides the length: ")
+    );
     assert!(
         (b.fluid_temperature.min_c - (-3.0)).abs() < 0.1,
         "{}",

@@ -420,10 +420,11 @@ fn band_fill_is_drawn_between_its_curves() {
 }
 
 /// Okabe, M. and Ito, K. (2008), Color Universal Design: the eight colours as sRGB bytes
-/// (from memory; these are the widely reproduced values of the published set).
+/// (from memory; these are the widely reproduced values of the published set). burrow's two
+/// side colours follow them.
 #[test]
 fn palette_is_the_okabe_ito_set() {
-    let mut p = palette().to_vec();
+    let mut p = palette()[..8].to_vec();
     p.sort();
     let mut published = vec![
         (0, 0, 0),
@@ -891,4 +892,56 @@ fn field_plot_refuses_arrows_with_non_finite_components() {
     };
     let err = render_field_plot_with_arrows(&demo_field(), &layer, W, H).unwrap_err();
     assert!(err.contains("finite"), "{err}");
+}
+
+/// A calendar grid puts year 1 at the top and January on the left: a grid whose only cold cell
+/// is January of year 1 and only warm cell December of the last year shows burrow's cold-side
+/// colour near the top-left corner and the warm-side colour near the bottom-right one, each
+/// exactly at its scale end; the centre value is the pale middle.
+#[test]
+fn a_calendar_grid_places_years_down_and_months_across_in_the_side_colours() {
+    use burrow::report::grid::{CalendarGrid, Mark, render_calendar_grid};
+    use burrow::report::plot::{FROM_GROUND_RGB, SIDE_MIDDLE_RGB, TO_GROUND_RGB, side_colour};
+    assert_eq!(side_colour(0.0), FROM_GROUND_RGB);
+    assert_eq!(side_colour(0.5), SIDE_MIDDLE_RGB);
+    assert_eq!(side_colour(1.0), TO_GROUND_RGB);
+    let mut values = vec![[5.0; 12]; 4];
+    values[0][0] = -2.0;
+    values[3][11] = 30.0;
+    let mut marks = vec![[None; 12]; 4];
+    marks[0][0] = Some(Mark::Beyond);
+    let grid = CalendarGrid {
+        title: "grid".into(),
+        colour_bar_label: "°C".into(),
+        values,
+        marks,
+        value_range: (-2.0, 30.0),
+        centre: 5.0,
+        beyond_key: "past a limit".into(),
+        near_key: String::new(),
+    };
+    let r = render_calendar_grid(&grid, 600, 400).unwrap();
+    let img = decode_png(&r.png);
+    let cold = img.pixels_of(FROM_GROUND_RGB);
+    let warm = img.pixels_of(TO_GROUND_RGB);
+    assert!(!cold.is_empty() && !warm.is_empty());
+    // The colour bar holds both colours too, but only in its end rows: the medians are the
+    // cells'.
+    let median = |px: &[(u32, u32)]| {
+        let mut x: Vec<u32> = px.iter().map(|p| p.0).collect();
+        let mut y: Vec<u32> = px.iter().map(|p| p.1).collect();
+        x.sort();
+        y.sort();
+        (x[x.len() / 2], y[y.len() / 2])
+    };
+    let (cx, cy) = median(&cold);
+    let (wx, wy) = median(&warm);
+    assert!(
+        cx < wx && cy < wy,
+        "cold cell at ({cx}, {cy}), warm cell at ({wx}, {wy})"
+    );
+    assert!(svg_texts(&r.svg).iter().any(|t| t == "past a limit"));
+    // A centre outside the range is refused, not drawn.
+    let bad = CalendarGrid { centre: 40.0, ..grid };
+    assert!(render_calendar_grid(&bad, 600, 400).is_err());
 }

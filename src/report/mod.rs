@@ -5,6 +5,7 @@
 //! failed run leaves either the previous bundle or nothing, never half of one.
 
 pub mod csv;
+pub mod grid;
 pub mod html;
 pub mod plot;
 

@@ -32,7 +32,7 @@ type Point = (f64, f64);
 type Polyline = Vec<Point>;
 
 /// Registers the bundled font with plotters exactly once per process.
-fn ensure_font() -> Result<(), String> {
+pub(crate) fn ensure_font() -> Result<(), String> {
     static REGISTERED: OnceLock<Result<(), String>> = OnceLock::new();
     REGISTERED
         .get_or_init(|| {
@@ -47,12 +47,13 @@ fn ensure_font() -> Result<(), String> {
 /// Values are the eight colours of Okabe, M. and Ito, K. (2008), "Color Universal Design (CUD):
 /// how to make figures and presentations that are friendly to colorblind people" (web
 /// publication; sRGB bytes from memory, as widely reproduced), in burrow's own order: the six mid-lightness hues first, black seventh and the pale
-/// yellow last because it has little contrast on white. Hue alone does not survive grey print,
+/// yellow eighth because it has little contrast on white; then burrow's two colours for the
+/// sides of a ground heat exchanger ([`FROM_GROUND`], [`TO_GROUND`]). Hue alone does not survive grey print,
 /// so series are also told apart by [`SeriesStyle`] (solid, dashed, dotted, markers) and each
 /// palette index has its own marker shape (circle, hollow square, triangle, cross, repeating).
 /// Palette indices beyond the end wrap around.
 pub fn palette() -> &'static [(u8, u8, u8)] {
-    const OKABE_ITO_ORDERED: [(u8, u8, u8); 8] = [
+    const OKABE_ITO_ORDERED: [(u8, u8, u8); 10] = [
         (0, 114, 178),   // blue
         (213, 94, 0),    // vermillion
         (0, 158, 115),   // bluish green
@@ -61,8 +62,41 @@ pub fn palette() -> &'static [(u8, u8, u8)] {
         (86, 180, 233),  // sky blue
         (0, 0, 0),       // black
         (240, 228, 66),  // yellow
+        FROM_GROUND_RGB,
+        TO_GROUND_RGB,
     ];
     &OKABE_ITO_ORDERED
+}
+
+/// burrow's colour for heat taken from the ground, the cold side of a ground heat exchanger (a
+/// deep slate blue), used for it in every borefield, ground-loop and response-test chart:
+/// palette index [`FROM_GROUND`].
+pub const FROM_GROUND_RGB: (u8, u8, u8) = (38, 84, 124);
+/// burrow's colour for heat given to the ground, the warm side (a burnt ochre): palette index
+/// [`TO_GROUND`]. The pair stays apart for the common colour-vision deficiencies (blue against
+/// orange) and in grey print (dark against mid).
+pub const TO_GROUND_RGB: (u8, u8, u8) = (196, 112, 30);
+/// Between the two sides, the pale middle of [`side_colour`].
+pub const SIDE_MIDDLE_RGB: (u8, u8, u8) = (244, 241, 232);
+/// Palette index of [`FROM_GROUND_RGB`].
+pub const FROM_GROUND: usize = 8;
+/// Palette index of [`TO_GROUND_RGB`].
+pub const TO_GROUND: usize = 9;
+
+/// The diverging scale between the two sides: `t` = 0 is the cold side's colour, 1 the warm
+/// side's, 0.5 the pale middle (linear in sRGB on each half; clamped; non-finite gives grey).
+pub fn side_colour(t: f64) -> (u8, u8, u8) {
+    if !t.is_finite() {
+        return NO_DATA_RGB;
+    }
+    let t = t.clamp(0.0, 1.0);
+    let (a, b, f) = if t < 0.5 {
+        (FROM_GROUND_RGB, SIDE_MIDDLE_RGB, t / 0.5)
+    } else {
+        (SIDE_MIDDLE_RGB, TO_GROUND_RGB, (t - 0.5) / 0.5)
+    };
+    let mix = |p: u8, q: u8| (f64::from(p) + f * (f64::from(q) - f64::from(p))).round() as u8;
+    (mix(a.0, b.0), mix(a.1, b.1), mix(a.2, b.2))
 }
 
 /// How one series is drawn.
@@ -147,7 +181,7 @@ pub fn render_line_plot(plot: &LinePlot, width_px: u32, height_px: u32) -> Resul
 // Shared rendering plumbing
 // ---------------------------------------------------------------------------------------------
 
-fn check_size(width_px: u32, height_px: u32) -> Result<(), String> {
+pub(crate) fn check_size(width_px: u32, height_px: u32) -> Result<(), String> {
     let ok = |s: u32| (MIN_SIDE_PX..=MAX_SIDE_PX).contains(&s);
     if ok(width_px) && ok(height_px) {
         Ok(())
@@ -159,13 +193,17 @@ fn check_size(width_px: u32, height_px: u32) -> Result<(), String> {
 }
 
 /// Something that can draw itself on any plotters backend.
-trait Drawing {
+pub(crate) trait Drawing {
     /// `is_svg` tells the drawing which backend it is on (the field raster differs).
     fn draw_on<DB: DrawingBackend>(&self, root: &DrawingArea<DB, Shift>, is_svg: bool) -> Result<(), String>;
 }
 
 /// Runs the same drawing on an SVG and a bitmap backend and encodes the bitmap as PNG.
-fn render_both<D: Drawing>(width_px: u32, height_px: u32, drawing: &D) -> Result<Rendered, String> {
+pub(crate) fn render_both<D: Drawing>(
+    width_px: u32,
+    height_px: u32,
+    drawing: &D,
+) -> Result<Rendered, String> {
     let mut svg = String::new();
     {
         let root = SVGBackend::with_string(&mut svg, (width_px, height_px)).into_drawing_area();
@@ -198,26 +236,26 @@ fn encode_png(rgb: &[u8], width_px: u32, height_px: u32) -> Result<Vec<u8>, Stri
     Ok(out)
 }
 
-fn drawing_error<E: std::fmt::Debug>(e: E) -> String {
+pub(crate) fn drawing_error<E: std::fmt::Debug>(e: E) -> String {
     format!("plot drawing failed: {e:?}")
 }
 
 /// Replaces control characters (invalid in XML 1.0 even when escaped, and meaningless in a
 /// label) by spaces. Markup characters are escaped by the SVG backend itself.
-fn clean_text(s: &str) -> String {
+pub(crate) fn clean_text(s: &str) -> String {
     s.chars().map(|c| if c.is_control() { ' ' } else { c }).collect()
 }
 
 /// Text sizes in plotters' size unit (pixels of ascent + descent), scaled with the image.
 #[derive(Debug, Clone, Copy)]
-struct FontSizes {
-    tick: f64,
-    label: f64,
-    title: f64,
+pub(crate) struct FontSizes {
+    pub(crate) tick: f64,
+    pub(crate) label: f64,
+    pub(crate) title: f64,
 }
 
 impl FontSizes {
-    fn for_image(width_px: u32, height_px: u32) -> Self {
+    pub(crate) fn for_image(width_px: u32, height_px: u32) -> Self {
         let base = (f64::from(width_px.min(height_px)) / 28.0).clamp(11.0, 30.0);
         Self {
             tick: base * 0.85,
@@ -227,13 +265,13 @@ impl FontSizes {
     }
 }
 
-fn font(size: f64) -> TextStyle<'static> {
+pub(crate) fn font(size: f64) -> TextStyle<'static> {
     (FONT_FAMILY, size).into_font().color(&BLACK)
 }
 
 /// Formats an axis value with a number of decimals suited to the axis span, without trailing
 /// zeros and without "-0".
-fn format_tick(value: f64, span: f64) -> String {
+pub(crate) fn format_tick(value: f64, span: f64) -> String {
     let decimals = if span > 0.0 && span.is_finite() {
         (2.0 - span.log10().floor()).clamp(0.0, 8.0) as usize
     } else {
@@ -787,7 +825,7 @@ const BAND_ALPHA: f64 = 0.22;
 
 /// Draws the title centred in a band at the top; returns the area below it (all of `root` when
 /// the title is empty).
-fn draw_title<DB: DrawingBackend>(
+pub(crate) fn draw_title<DB: DrawingBackend>(
     root: &DrawingArea<DB, Shift>,
     title: &str,
     size: f64,
@@ -808,7 +846,11 @@ fn draw_title<DB: DrawingBackend>(
     Ok(rest)
 }
 
-fn text_width<DB: DrawingBackend>(root: &DrawingArea<DB, Shift>, text: &str, style: &TextStyle) -> u32 {
+pub(crate) fn text_width<DB: DrawingBackend>(
+    root: &DrawingArea<DB, Shift>,
+    text: &str,
+    style: &TextStyle,
+) -> u32 {
     root.estimate_text_size(text, style).map(|s| s.0).unwrap_or(0)
 }
 
@@ -1571,7 +1613,7 @@ fn draw_arrows<DB: DrawingBackend>(
 }
 
 /// Tick values at a 1-2-5 step giving about `target` ticks over lo..hi.
-fn nice_ticks(lo: f64, hi: f64, target: usize) -> Vec<f64> {
+pub(crate) fn nice_ticks(lo: f64, hi: f64, target: usize) -> Vec<f64> {
     let raw = (hi - lo) / target.max(1) as f64;
     if !(raw > 0.0 && raw.is_finite()) {
         return vec![lo];

@@ -83,16 +83,16 @@ impl LoopPipe {
     }
 }
 
-/// Heat exchanged with the ground by the whole field. Energies in J, powers in W; `extracted`
-/// is taken from the ground (heating), `injected` given to it (cooling).
+/// Heat exchanged with the ground by the whole field. Energies in J, powers in W; `from_ground`
+/// is taken from the ground (heating), `to_ground` given to it (cooling).
 #[derive(Clone, Debug, PartialEq)]
 pub enum GroundLoads {
     /// Ground-side monthly energies and peaks, January first; repeated every year.
     Monthly {
-        extracted_j: [f64; 12],
-        injected_j: [f64; 12],
-        peak_extraction_w: [f64; 12],
-        peak_injection_w: [f64; 12],
+        from_ground_j: [f64; 12],
+        to_ground_j: [f64; 12],
+        peak_from_ground_w: [f64; 12],
+        peak_to_ground_w: [f64; 12],
         peak_duration_s: f64,
     },
     /// Building-side monthly energies and peaks, turned into ground loads with the heat pump's
@@ -106,8 +106,8 @@ pub enum GroundLoads {
         eer: f64,
         peak_duration_s: f64,
     },
-    /// 8760 hourly ground loads, W, positive = extracted; repeated every year.
-    Hourly { extracted_w: Vec<f64>, source: String },
-    /// One load for the whole design life, W, positive = extracted.
-    Constant { extracted_w: f64 },
+    /// 8760 hourly ground loads, W, positive = from the ground; repeated every year.
+    Hourly { from_ground_w: Vec<f64>, source: String },
+    /// One load for the whole design life, W, positive = from the ground.
+    Constant { from_ground_w: f64 },
 }

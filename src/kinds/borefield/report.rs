@@ -1,8 +1,10 @@
 //! Report section, plots and CSV of a `borefield` study.
 
 use super::BorefieldResult;
+use super::{FluidMonth, LimitProximity};
 use crate::report::Figure;
-use crate::report::plot::{Band, LinePlot, Series, SeriesStyle, render_line_plot};
+use crate::report::grid::{CalendarGrid, Mark, render_calendar_grid};
+use crate::report::plot::{Band, FROM_GROUND, LinePlot, Series, SeriesStyle, TO_GROUND, render_line_plot};
 use crate::results::StudyResult;
 use maud::{Markup, html};
 use std::fmt::Write;
@@ -11,108 +13,149 @@ const MONTH_NAMES: [&str; 12] = [
     "Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec",
 ];
 
-fn limit_lines(b: &BorefieldResult) -> Vec<(f64, String)> {
-    vec![
-        (
-            b.limits.min_fluid_c,
-            format!("lower limit {} °C", b.limits.min_fluid_c),
-        ),
-        (
-            b.limits.max_fluid_c,
-            format!("upper limit {} °C", b.limits.max_fluid_c),
-        ),
-    ]
+/// The design life's months in years of twelve.
+fn years_of(b: &BorefieldResult) -> Vec<[FluidMonth; 12]> {
+    b.months
+        .chunks_exact(12)
+        .map(|c| std::array::from_fn(|m| c[m]))
+        .collect()
+}
+
+/// The study's marks of the months, as the calendar draws them.
+fn marks_of(b: &BorefieldResult) -> Vec<[Option<Mark>; 12]> {
+    b.month_marks
+        .chunks_exact(12)
+        .map(|c| {
+            std::array::from_fn(|m| match c[m] {
+                LimitProximity::Beyond => Some(Mark::Beyond),
+                LimitProximity::Near => Some(Mark::Near),
+                LimitProximity::Within => None,
+            })
+        })
+        .collect()
 }
 
 pub fn figures(s: &StudyResult, b: &BorefieldResult) -> Result<Vec<Figure>, String> {
-    let years = |m: usize| (m as f64 - 0.5) / 12.0;
-    let life = Figure {
-        stem: format!("{}-fluid-life", s.id),
-        caption: "Mean fluid temperature over the design life: the monthly mean (line) and the range reached during the monthly peaks (band), with the limits.".into(),
-        rendered: render_line_plot(
-            &LinePlot {
-                title: "Mean fluid temperature over the design life".into(),
-                x_label: "years of operation".into(),
-                y_label: "mean fluid temperature (°C)".into(),
-                series: vec![
-                    Series {
-                        name: "monthly mean".into(),
-                        points: b.months.iter().map(|m| (years(m.month), m.mean_c)).collect(),
-                        style: SeriesStyle::Line,
-                        colour: 0,
-                    },
-                    Series {
-                        name: "borehole wall".into(),
-                        points: b.months.iter().map(|m| (years(m.month), m.wall_c)).collect(),
-                        style: SeriesStyle::Dotted,
-                        colour: 2,
-                    },
-                ],
-                bands: vec![Band {
-                    name: "peaks".into(),
-                    lower: b.months.iter().map(|m| (years(m.month), m.min_c)).collect(),
-                    upper: b.months.iter().map(|m| (years(m.month), m.max_c)).collect(),
-                    colour: 0,
-                }],
-                hlines: limit_lines(b),
-                x_range: Some((0.0, b.design_life_years)),
-                ..Default::default()
+    let years = years_of(b);
+    let (lo, hi) = (b.limits.min_fluid_c, b.limits.max_fluid_c);
+    let calendar = Figure {
+        stem: format!("{}-fluid-calendar", s.id),
+        caption: format!(
+            "Mean fluid temperature month by month (across) and year by year (down) over the design life, on burrow's scale from the cold side (the lower limit, {lo} °C) through the undisturbed ground temperature ({:.1} °C, pale: colder months take heat from the ground, warmer ones give it back) to the warm side (the upper limit, {hi} °C). A cross marks a month whose peak passes a limit; a ring one whose peak comes near it (the study's assumptions say how near).",
+            b.ground.undisturbed_c
+        ),
+        rendered: render_calendar_grid(
+            &CalendarGrid {
+                title: "Mean fluid temperature through the design life".into(),
+                colour_bar_label: "mean fluid temperature (°C)".into(),
+                values: years.iter().map(|y| y.map(|m| m.mean_c)).collect(),
+                marks: marks_of(b),
+                value_range: (lo, hi),
+                centre: b
+                    .ground
+                    .undisturbed_c
+                    .clamp(lo + 0.1 * (hi - lo), hi - 0.1 * (hi - lo)),
+                beyond_key: "the month's peak passes a limit".into(),
+                near_key: "the month's peak comes near a limit".into(),
             },
-            900,
-            420,
+            760,
+            (260 + 9 * years.len() as u32).min(900),
         )?,
     };
-    let n = b.months.len();
-    let month_series = |rows: &[crate::kinds::borefield::FluidMonth],
-                        f: fn(&crate::kinds::borefield::FluidMonth) -> f64| {
-        rows.iter()
+    let yearly = |f: fn(&[FluidMonth; 12]) -> f64| -> Vec<(f64, f64)> {
+        years
+            .iter()
             .enumerate()
-            .map(|(i, m)| (i as f64 + 1.0, f(m)))
-            .collect::<Vec<_>>()
+            .map(|(y, row)| (y as f64 + 1.0, f(row)))
+            .collect()
     };
-    let first = &b.months[..12.min(n)];
-    let last = &b.months[n.saturating_sub(12)..];
-    let years_label = |y: f64| format!("year {y:.0}");
-    let first_last = Figure {
-        stem: format!("{}-first-last-year", s.id),
-        caption: "Mean fluid temperature month by month in the first and the last year of the design life: the drift of the ground shows as the gap between them.".into(),
+    let coldest_peak = yearly(|r| r.iter().map(|m| m.min_c).fold(f64::INFINITY, f64::min));
+    let warmest_peak = yearly(|r| r.iter().map(|m| m.max_c).fold(f64::NEG_INFINITY, f64::max));
+    let span = (hi - lo).max(1.0);
+    let y_min = coldest_peak.iter().map(|p| p.1).fold(lo, f64::min) - 0.15 * span;
+    let y_max = warmest_peak.iter().map(|p| p.1).fold(hi, f64::max) + 0.15 * span;
+    let x_end = years.len() as f64 + 0.5;
+    let below = Band {
+        name: format!("below {lo} °C"),
+        lower: vec![(0.5, y_min), (x_end, y_min)],
+        upper: vec![(0.5, lo), (x_end, lo)],
+        colour: FROM_GROUND,
+    };
+    let above = Band {
+        name: format!("above {hi} °C"),
+        lower: vec![(0.5, hi), (x_end, hi)],
+        upper: vec![(0.5, y_max), (x_end, y_max)],
+        colour: TO_GROUND,
+    };
+    let peaks = Figure {
+        stem: format!("{}-yearly-peaks", s.id),
+        caption: "Each year's coldest and warmest mean fluid temperature during the peaks, against the limits: the shaded regions are outside them.".into(),
         rendered: render_line_plot(
             &LinePlot {
-                title: "First and last year".into(),
-                x_label: "month (1 = January)".into(),
+                title: "Coldest and warmest peak of each year".into(),
+                x_label: "year of operation".into(),
                 y_label: "mean fluid temperature (°C)".into(),
                 series: vec![
                     Series {
-                        name: format!("{} lowest", years_label(1.0)),
-                        points: month_series(first, |m| m.min_c),
+                        name: "coldest peak".into(),
+                        points: coldest_peak,
                         style: SeriesStyle::LineMarkers,
-                        colour: 0,
+                        colour: FROM_GROUND,
                     },
                     Series {
-                        name: format!("{} highest", years_label(1.0)),
-                        points: month_series(first, |m| m.max_c),
-                        style: SeriesStyle::Dashed,
-                        colour: 0,
-                    },
-                    Series {
-                        name: format!("{} lowest", years_label(b.design_life_years.ceil())),
-                        points: month_series(last, |m| m.min_c),
+                        name: "warmest peak".into(),
+                        points: warmest_peak,
                         style: SeriesStyle::LineMarkers,
-                        colour: 1,
-                    },
-                    Series {
-                        name: format!("{} highest", years_label(b.design_life_years.ceil())),
-                        points: month_series(last, |m| m.max_c),
-                        style: SeriesStyle::Dashed,
-                        colour: 1,
+                        colour: TO_GROUND,
                     },
                 ],
-                hlines: limit_lines(b),
-                x_range: Some((0.5, 12.5)),
+                bands: vec![below, above],
+                x_range: Some((0.5, x_end)),
+                y_range: Some((y_min, y_max)),
                 ..Default::default()
             },
-            720,
-            420,
+            760,
+            340,
+        )?,
+    };
+    let coldest_month = yearly(|r| r.iter().map(|m| m.mean_c).fold(f64::INFINITY, f64::min));
+    let warmest_month = yearly(|r| r.iter().map(|m| m.mean_c).fold(f64::NEG_INFINITY, f64::max));
+    let drift = Figure {
+        stem: format!("{}-drift", s.id),
+        caption: format!(
+            "The drift of the field: each year's coldest and warmest monthly mean fluid temperature, with the undisturbed ground temperature along the boreholes ({:.1} °C) for reference.",
+            b.ground.undisturbed_c
+        ),
+        rendered: render_line_plot(
+            &LinePlot {
+                title: "Year-by-year drift".into(),
+                x_label: "year of operation".into(),
+                y_label: "monthly mean fluid temperature (°C)".into(),
+                series: vec![
+                    Series {
+                        name: "coldest month".into(),
+                        points: coldest_month,
+                        style: SeriesStyle::LineMarkers,
+                        colour: FROM_GROUND,
+                    },
+                    Series {
+                        name: "warmest month".into(),
+                        points: warmest_month,
+                        style: SeriesStyle::LineMarkers,
+                        colour: TO_GROUND,
+                    },
+                    Series {
+                        name: format!("undisturbed ground {:.1} °C", b.ground.undisturbed_c),
+                        points: vec![(0.5, b.ground.undisturbed_c), (x_end, b.ground.undisturbed_c)],
+                        style: SeriesStyle::Dashed,
+                        colour: 6,
+                    },
+                ],
+                x_range: Some((0.5, x_end)),
+                ..Default::default()
+            },
+            760,
+            340,
         )?,
     };
     let g = Figure {
@@ -139,7 +182,7 @@ pub fn figures(s: &StudyResult, b: &BorefieldResult) -> Result<Vec<Figure>, Stri
             420,
         )?,
     };
-    Ok(vec![life, first_last, g])
+    Ok(vec![calendar, peaks, drift, g])
 }
 
 pub fn section(b: &BorefieldResult) -> Markup {
@@ -188,8 +231,8 @@ pub fn section(b: &BorefieldResult) -> Markup {
                 },
             ))
             (row(
-                html! { "Ground loads per year: extracted; injected" },
-                html! { (format!("{:.1} MWh; {:.1} MWh", b.annual_loads.extracted_mwh, b.annual_loads.injected_mwh)) },
+                html! { "Ground loads per year: from the ground; to the ground" },
+                html! { (format!("{:.1} MWh; {:.1} MWh", b.annual_loads.from_ground_mwh, b.annual_loads.to_ground_mwh)) },
             ))
             (row(
                 html! { "Mean fluid temperature, lowest / highest over the design life" },
@@ -221,7 +264,7 @@ pub fn section(b: &BorefieldResult) -> Markup {
                 html! { (format!("{:.1} kPa; {:.0} W", b.pressure_drop_kpa, b.pumping_power_w)) },
             ))
         }
-        @if let (Some(s), Some(g)) = (&b.sizing, &b.governing_limit) {
+        @if let (Some(s), Some(decision)) = (&b.sizing, &b.decision) {
             p {
                 b { "Sizing:" }
                 (format!(
@@ -230,11 +273,7 @@ pub fn section(b: &BorefieldResult) -> Markup {
                 ))
                 b { (format!("{:.1} m", b.active_length_m)) }
                 " per borehole; "
-                @match g.as_str() {
-                    "min_fluid" => "the lower limit governs",
-                    "max_fluid" => "the upper limit governs",
-                    _ => "the shortest length searched already meets both limits",
-                }
+                (decision)
                 (format!(
                     ". Length needed for the lower limit {:.1} m, for the upper limit {:.1} m. The g-function was computed at {} and interpolated in ln H; the figures above use the g-function computed at the sized length.",
                     s.length_for_min_fluid_m,

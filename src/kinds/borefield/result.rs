@@ -44,10 +44,14 @@ pub struct BorefieldResult {
     /// Pump power for the whole field's borehole loops (headers and heat pump excluded).
     pub pumping_power_w: f64,
     pub limits: FluidLimits,
-    /// Which limit fixed the sized length: `min_fluid`, `max_fluid`, or `none` when the shortest
-    /// length searched already meets both.
+    /// Which side decided the sized length: `cold-side` (the lower limit, met at an extraction
+    /// peak), `warm-side` (the upper limit) or `none` when the shortest length searched already
+    /// meets both.
     #[serde(skip_serializing_if = "Option::is_none")]
-    pub governing_limit: Option<String>,
+    pub decided_by: Option<String>,
+    /// The same in a plain sentence, with the temperature and the month it is reached.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub decision: Option<String>,
     #[serde(skip_serializing_if = "Option::is_none")]
     pub sizing: Option<BorefieldSizing>,
     /// Ground loads of one year, whole field.
@@ -57,6 +61,10 @@ pub struct BorefieldResult {
     /// One row per month of the design life, for the report and the CSV.
     #[serde(skip)]
     pub months: Vec<FluidMonth>,
+    /// How each month's peaks stand against the limits, in the order of `months` (the marks of
+    /// the report's calendar; not serialised).
+    #[serde(skip)]
+    pub month_marks: Vec<LimitProximity>,
 }
 
 #[derive(Clone, Copy, Debug, Serialize)]
@@ -127,8 +135,8 @@ pub struct BorefieldSizing {
 
 #[derive(Clone, Copy, Debug, Serialize)]
 pub struct AnnualGroundLoads {
-    pub extracted_mwh: f64,
-    pub injected_mwh: f64,
+    pub from_ground_mwh: f64,
+    pub to_ground_mwh: f64,
 }
 
 /// Mean fluid temperatures of one month of the design life, °C.
@@ -146,4 +154,14 @@ pub struct FluidMonth {
     /// Coldest and warmest field inlet.
     pub inlet_min_c: f64,
     pub inlet_max_c: f64,
+}
+
+/// How a month's peaks stand against the fluid limits.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum LimitProximity {
+    Within,
+    /// Within [`crate::kinds::borefield::run::NEAR_LIMIT_K`] of a limit.
+    Near,
+    /// Past a limit.
+    Beyond,
 }

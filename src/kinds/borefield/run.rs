@@ -36,6 +36,7 @@ use super::FluidTemperatureFigures;
 use super::GPoint;
 use super::GroundLoads;
 use super::HeatExchanger;
+use super::LimitProximity;
 use super::validate::SIZING_RANGE_M;
 use crate::ground::profile::Undisturbed;
 use crate::kinds::Outcome;
@@ -73,6 +74,10 @@ const MAX_TAU_POINTS: usize = 52;
 
 /// Tolerance on the governing fluid temperature of a sized length, K.
 const SIZING_TOLERANCE_K: f64 = 0.02;
+
+/// A month whose peak comes within this of a fluid limit is marked as near it, K (for the
+/// report's calendar of the design life; burrow's choice, listed in the assumptions).
+pub const NEAR_LIMIT_K: f64 = 1.0;
 
 /// A sized design meets its limits within this tolerance (the search closes within
 /// [`SIZING_TOLERANCE_K`]; the check allows for the once-corrected g-function), K.
@@ -142,8 +147,8 @@ pub fn ground_from_building(heating: f64, cooling: f64, cop: f64, eer: f64) -> (
 
 impl Loads {
     pub fn from_model(loads: &GroundLoads) -> Loads {
-        let monthly = |extracted: [f64; 12], injected: [f64; 12], pe: [f64; 12], pi: [f64; 12], d: f64| {
-            let mean: [f64; 12] = std::array::from_fn(|m| (injected[m] - extracted[m]) / MONTH_S);
+        let monthly = |from: [f64; 12], to: [f64; 12], pe: [f64; 12], pi: [f64; 12], d: f64| {
+            let mean: [f64; 12] = std::array::from_fn(|m| (to[m] - from[m]) / MONTH_S);
             Loads::Monthly {
                 mean_w: mean,
                 extraction_peak_w: std::array::from_fn(|m| {
@@ -161,16 +166,16 @@ impl Loads {
         };
         match loads {
             GroundLoads::Monthly {
-                extracted_j,
-                injected_j,
-                peak_extraction_w,
-                peak_injection_w,
+                from_ground_j,
+                to_ground_j,
+                peak_from_ground_w,
+                peak_to_ground_w,
                 peak_duration_s,
             } => monthly(
-                *extracted_j,
-                *injected_j,
-                *peak_extraction_w,
-                *peak_injection_w,
+                *from_ground_j,
+                *to_ground_j,
+                *peak_from_ground_w,
+                *peak_to_ground_w,
                 *peak_duration_s,
             ),
             GroundLoads::Building {
@@ -195,21 +200,21 @@ impl Loads {
                     *peak_duration_s,
                 )
             }
-            GroundLoads::Hourly { extracted_w, .. } => {
-                Loads::Hourly(extracted_w.iter().map(|p| -p).collect())
+            GroundLoads::Hourly { from_ground_w, .. } => {
+                Loads::Hourly(from_ground_w.iter().map(|p| -p).collect())
             }
-            GroundLoads::Constant { extracted_w } => Loads::Monthly {
-                mean_w: [-extracted_w; 12],
-                extraction_peak_w: [-extracted_w; 12],
-                injection_peak_w: [-extracted_w; 12],
+            GroundLoads::Constant { from_ground_w } => Loads::Monthly {
+                mean_w: [-from_ground_w; 12],
+                extraction_peak_w: [-from_ground_w; 12],
+                injection_peak_w: [-from_ground_w; 12],
                 peak_duration_s: MONTH_S,
             },
         }
     }
 
-    /// Heat extracted from and injected into the ground in one year, MWh.
+    /// Heat taken from and given to the ground in one year, MWh.
     pub fn annual(&self) -> AnnualGroundLoads {
-        let (extracted_j, injected_j) = match self {
+        let (from_ground_j, to_ground_j) = match self {
             Loads::Monthly { mean_w, .. } => mean_w.iter().fold((0.0, 0.0), |(e, i), q| {
                 (e + (-q).max(0.0) * MONTH_S, i + q.max(0.0) * MONTH_S)
             }),
@@ -218,8 +223,8 @@ impl Loads {
             }),
         };
         AnnualGroundLoads {
-            extracted_mwh: extracted_j / (1e6 * HOUR_S),
-            injected_mwh: injected_j / (1e6 * HOUR_S),
+            from_ground_mwh: from_ground_j / (1e6 * HOUR_S),
+            to_ground_mwh: to_ground_j / (1e6 * HOUR_S),
         }
     }
 }
@@ -866,8 +871,8 @@ impl Design<'_> {
             length_m: length,
             governing: match governing {
                 None => "none",
-                Some(0) => "min_fluid",
-                Some(_) => "max_fluid",
+                Some(0) => "cold-side",
+                Some(_) => "warm-side",
             },
             length_for_min_m: needed[0],
             length_for_max_m: needed[1],
@@ -1128,7 +1133,8 @@ fn result(
             min_fluid_c: b.min_fluid_c,
             max_fluid_c: b.max_fluid_c,
         },
-        governing_limit: sized.as_ref().map(|s| s.governing.to_string()),
+        decided_by: sized.as_ref().map(|s| s.governing.to_string()),
+        decision: sized.as_ref().map(|s| decision(s.governing, months, b)),
         sizing: sized.map(|s| BorefieldSizing {
             range_m: [SIZING_RANGE_M.0, SIZING_RANGE_M.1],
             length_for_min_fluid_m: s.length_for_min_m,
@@ -1138,6 +1144,19 @@ fn result(
         annual_loads: d.loads.annual(),
         design_life_years: b.design_life_months as f64 / 12.0,
         months: e.months.clone(),
+        month_marks: e
+            .months
+            .iter()
+            .map(|m| {
+                if m.min_c < b.min_fluid_c || m.max_c > b.max_fluid_c {
+                    LimitProximity::Beyond
+                } else if m.min_c < b.min_fluid_c + NEAR_LIMIT_K || m.max_c > b.max_fluid_c - NEAR_LIMIT_K {
+                    LimitProximity::Near
+                } else {
+                    LimitProximity::Within
+                }
+            })
+            .collect(),
     };
     let mut assumptions = vec![
         Assumption::new(
@@ -1185,6 +1204,62 @@ fn result(
         checks,
         assumptions,
     })
+}
+
+/// The sentence that says what decided a sized length: which limit, at which temperature, in
+/// which month of which year of the design life.
+fn decision(decided_by: &str, months: &[FluidMonth], b: &Borefield) -> String {
+    const MONTHS: [&str; 12] = [
+        "January",
+        "February",
+        "March",
+        "April",
+        "May",
+        "June",
+        "July",
+        "August",
+        "September",
+        "October",
+        "November",
+        "December",
+    ];
+    let when = |m: &FluidMonth| {
+        format!(
+            "{} of year {}",
+            MONTHS[(m.month - 1) % 12],
+            (m.month - 1) / 12 + 1
+        )
+    };
+    match decided_by {
+        "cold-side" => {
+            let m = months.iter().min_by(|a, b| a.min_c.total_cmp(&b.min_c));
+            match m {
+                Some(m) => format!(
+                    "the mean fluid temperature at the extraction peak decides the length: {:.1} °C in {} against the lower limit of {} °C",
+                    m.min_c,
+                    when(m),
+                    b.min_fluid_c
+                ),
+                None => "the lower limit decides the length".into(),
+            }
+        }
+        "warm-side" => {
+            let m = months.iter().max_by(|a, b| a.max_c.total_cmp(&b.max_c));
+            match m {
+                Some(m) => format!(
+                    "the mean fluid temperature at the injection peak decides the length: {:.1} °C in {} against the upper limit of {} °C",
+                    m.max_c,
+                    when(m),
+                    b.max_fluid_c
+                ),
+                None => "the upper limit decides the length".into(),
+            }
+        }
+        _ => format!(
+            "the shortest length searched, {} m, already keeps the fluid within both limits",
+            SIZING_RANGE_M.0
+        ),
+    }
 }
 
 fn fluid_name(f: &Fluid) -> String {

@@ -582,10 +582,10 @@ fn loads(doc: &LoadsDoc, path: &KeyPath, v: &mut Validator) -> Option<GroundLoad
         );
         let duration = peak_duration(&peak.and_then(|k| k.duration.as_ref()), &pk.key("duration"), v);
         return Some(GroundLoads::Monthly {
-            extracted_j: extracted?,
-            injected_j: injected?,
-            peak_extraction_w: pe?,
-            peak_injection_w: pi?,
+            from_ground_j: extracted?,
+            to_ground_j: injected?,
+            peak_from_ground_w: pe?,
+            peak_to_ground_w: pi?,
             peak_duration_s: duration?,
         });
     }
@@ -624,7 +624,7 @@ fn loads(doc: &LoadsDoc, path: &KeyPath, v: &mut Validator) -> Option<GroundLoad
         let p = path.key("hourly");
         return match crate::site::series_file::read_hourly_loads(&v.base_dir.join(file)) {
             Ok(values) => Some(GroundLoads::Hourly {
-                extracted_w: values,
+                from_ground_w: values,
                 source: file.clone(),
             }),
             Err(e) => {
@@ -635,5 +635,5 @@ fn loads(doc: &LoadsDoc, path: &KeyPath, v: &mut Validator) -> Option<GroundLoad
     }
     let q = doc.constant.as_ref()?;
     let w = v.q(q, &path.key("constant"))?;
-    Some(GroundLoads::Constant { extracted_w: w })
+    Some(GroundLoads::Constant { from_ground_w: w })
 }
