@@ -209,3 +209,96 @@ studies:
     assert_eq!(json["studies"][0]["id"], "frost-check");
     assert!(out.join("report.html").is_file());
 }
+
+/// A borefield over its own limit is a danger with a failed check, its report is still
+/// written, and `--strict` exits 3; a fluid colder than its freezing point is said to freeze,
+/// by how much (the sign right), and the properties taken at the edge of their range are
+/// flagged. Invented loads far beyond two 60 m boreholes: 40 kW to the ground and, in the second
+/// site, 40 kW from it.
+#[test]
+fn a_borefield_over_its_limits_is_a_danger_and_says_what_to_change() {
+    let site = |load: &str| {
+        format!(
+            "\
+site: {{name: Fenwick Lane depot}}
+climate: {{model: annual-wave, mean: 9 °C, amplitude: 8 K, coldest_day: 30}}
+ground:
+  layers: [{{name: sand, conductivity: 2.0 W/(m K), heat_capacity: 2.2 MJ/(m3 K)}}]
+studies:
+  - id: yard
+    kind: borefield
+    layout: {{rectangle: {{rows: 1, columns: 2, spacing: 6 m}}}}
+    borehole: {{active_length: 60 m, top_depth: 1 m, diameter: 140 mm}}
+    heat_exchanger:
+      type: single-u
+      pipe: {{outer_diameter: 32 mm, wall: 2.9 mm, conductivity: 0.42 W/(m K)}}
+      shank_spacing: 70 mm
+      grout_conductivity: 1.5 W/(m K)
+    fluid: {{mixture: propylene-glycol, concentration: 25 %, flow_per_borehole: 0.5 l/s}}
+    loads: {{constant: {load}}}
+    limits: {{min_fluid: -3 °C, max_fluid: 35 °C}}
+    design_life: 2 years
+"
+        )
+    };
+    let dir = std::env::temp_dir().join(format!("burrow-over-limit-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let file = dir.join("hot.yaml");
+    std::fs::write(&file, site("-40 kW")).unwrap();
+    let loaded = burrow::site::load(&file).unwrap();
+    let r = burrow::compute(&loaded, "hot.yaml", b"", &burrow::Silent).unwrap();
+    let max = r.studies[0]
+        .checks
+        .iter()
+        .find(|c| c.code == "borefield.max_fluid")
+        .unwrap();
+    assert!(!max.passed && max.value.unwrap() > 35.0);
+    let w = r
+        .warnings
+        .iter()
+        .find(|w| w.code == "borefield.limit_exceeded")
+        .unwrap();
+    assert_eq!(w.level, burrow::results::Level::Danger);
+    assert!(
+        w.message.contains("above the upper limit") && w.message.contains("lengthen"),
+        "{}",
+        w.message
+    );
+    let out = dir.join("bundle");
+    let o = Command::new(env!("CARGO_BIN_EXE_burrow"))
+        .args(["run", "--quiet", "--strict", "--out"])
+        .arg(&out)
+        .arg(&file)
+        .output()
+        .unwrap();
+    assert_eq!(o.status.code(), Some(3), "{}", String::from_utf8_lossy(&o.stderr));
+    assert!(out.join("report.html").is_file());
+
+    std::fs::write(&file, site("40 kW")).unwrap();
+    let loaded = burrow::site::load(&file).unwrap();
+    let r = burrow::compute(&loaded, "cold.yaml", b"", &burrow::Silent).unwrap();
+    let s = &r.studies[0];
+    let margin = s
+        .checks
+        .iter()
+        .find(|c| c.code == "borefield.antifreeze_margin")
+        .unwrap();
+    assert!(!margin.passed && margin.value.unwrap() < 0.0);
+    let w = r
+        .warnings
+        .iter()
+        .find(|w| w.code == "borefield.antifreeze_margin")
+        .unwrap();
+    assert_eq!(w.level, burrow::results::Level::Danger);
+    let below = format!("{:.1} K below the freezing point", -margin.value.unwrap());
+    assert!(
+        w.message.contains("would freeze") && w.message.contains(&below),
+        "{}",
+        w.message
+    );
+    assert!(
+        r.warnings
+            .iter()
+            .any(|w| w.code == "borefield.fluid_properties_out_of_range")
+    );
+}

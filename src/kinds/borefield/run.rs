@@ -1018,32 +1018,52 @@ fn result(
         ),
     ];
     if !checks[2].passed {
-        warn(
-            Level::Danger,
-            "borefield.antifreeze_margin",
+        let message = if margin < 0.0 {
+            format!(
+                "the fluid would freeze: the coldest fluid, {coldest:.1} °C at the field inlet during the extraction peak, is {:.1} K below the freezing point of the {} ({freezing:.1} °C); raise the antifreeze concentration, lengthen the boreholes, add boreholes or lower the peak, so that the coldest fluid stays at least {ANTIFREEZE_MARGIN_K} K above freezing (common practice)",
+                -margin,
+                fluid_name(&b.fluid)
+            )
+        } else {
             format!(
                 "the coldest fluid, {coldest:.1} °C at the field inlet during the extraction peak, is only {margin:.1} K above the freezing point of the {} ({freezing:.1} °C); keep at least {ANTIFREEZE_MARGIN_K} K (common practice): raise the antifreeze concentration, lengthen the boreholes or lower the peak",
                 fluid_name(&b.fluid)
-            ),
-        );
+            )
+        };
+        warn(Level::Danger, "borefield.antifreeze_margin", message);
     }
+    // Failing the study's own limit is a danger, not a caution.
     if !checks[0].passed {
         warn(
-            Level::Caution,
+            Level::Danger,
             "borefield.limit_exceeded",
             format!(
-                "the mean fluid temperature falls to {:.2} °C, below the lower limit of {} °C",
-                figures.min_c, b.min_fluid_c
+                "the mean fluid temperature falls to {:.2} °C, {:.2} K below the lower limit of {} °C: lengthen the boreholes, add boreholes or lower the heat taken from the ground",
+                figures.min_c,
+                b.min_fluid_c - figures.min_c,
+                b.min_fluid_c
             ),
         );
     }
     if !checks[1].passed {
         warn(
-            Level::Caution,
+            Level::Danger,
             "borefield.limit_exceeded",
             format!(
-                "the mean fluid temperature rises to {:.2} °C, above the upper limit of {} °C",
-                figures.max_c, b.max_fluid_c
+                "the mean fluid temperature rises to {:.2} °C, {:.2} K above the upper limit of {} °C: lengthen the boreholes, add boreholes or lower the heat given to the ground",
+                figures.max_c,
+                figures.max_c - b.max_fluid_c,
+                b.max_fluid_c
+            ),
+        );
+    }
+    if hydraulic_t != coldest {
+        warn(
+            Level::Caution,
+            "borefield.fluid_properties_out_of_range",
+            format!(
+                "the coldest fluid, {coldest:.1} °C, lies outside the range where the properties of the {} are valid ({lo:.1} to {hi:.1} °C): the pressure drop and the flow regime were taken at {hydraulic_t:.1} °C, the edge of that range, and are not reliable",
+                fluid_name(&b.fluid)
             ),
         );
     }
