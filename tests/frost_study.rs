@@ -265,6 +265,59 @@ fn a_season_start_in_summer_or_autumn_leaves_the_freezing_index_unchanged() {
     assert!(july > 300.0, "{july}");
 }
 
+/// South of the equator the default season start follows the climate: with the same sinusoid
+/// shifted by half a year (coldest in late July), the default start is the warmest day of the
+/// typical year (late January), the whole winter is counted, and the index equals the northern
+/// climate's and the southern one's counted from an explicit summer start. (With a fixed 1 July
+/// start the southern winter would be cut in two; the largest fall of the cumulative curve
+/// within a season is TM 5-852-6's definition.)
+#[test]
+fn the_default_season_start_follows_the_climate_in_the_southern_hemisphere() {
+    let climate = |shift: f64| {
+        let air: Vec<String> = (0..12)
+            .map(|i| {
+                format!(
+                    "{:.4}",
+                    3.0 - 12.0 * (2.0 * PI * (i as f64 - 0.2 - shift) / 12.0).cos()
+                )
+            })
+            .collect();
+        format!(
+            "{{model: monthly-air, air: [{}], n_factor_freezing: 1, n_factor_thawing: 1}}",
+            air.join(", ")
+        )
+    };
+    let (north, south) = (climate(0.0), climate(6.0));
+    let default_of = |climate: &str| {
+        let r = run_in(
+            &site_text(climate, "  - id: f\n    kind: frost\n"),
+            Path::new("."),
+        );
+        let f = frost(&r);
+        (f.design_freezing_index_c_days, f.season_start.clone())
+    };
+    let (south_default, start) = default_of(&south);
+    let (north_default, north_start) = default_of(&north);
+    let south_summer = index_of(&south, "01-15");
+    let south_cut = index_of(&south, "07-01");
+    println!(
+        "south default {south_default:.6} from {start}, north {north_default:.6} from {north_start}, south from 07-01 {south_cut:.2}"
+    );
+    assert!(start.starts_with("01-") || start.starts_with("02-"), "{start}");
+    assert!(
+        north_start.starts_with("07-") || north_start.starts_with("08-"),
+        "{north_start}"
+    );
+    assert!((south_default - south_summer).abs() < 1e-9 * south_summer);
+    // Mirrors to within the unequal lengths of the calendar months the monthly means stand for
+    // (measured 1.8e-6 relative).
+    assert!((south_default - north_default).abs() < 1e-5 * north_default);
+    assert!(
+        south_cut < 0.8 * south_default,
+        "a 1 July start cuts the southern winter"
+    );
+}
+
 /// A season that starts at the coldest instant of a sinusoidal surface splits the winter into
 /// two equal halves; the index is then one half, ∫ (A cos φ − m) dt over φ = 2π(t − t_min)/P
 /// from 0 to θ = acos(m/A): (P/2π)(A sin θ − m θ), half the whole winter's (P/π)(A sin θ − m θ)

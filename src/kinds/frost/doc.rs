@@ -44,7 +44,8 @@ pub struct FrostDoc {
     #[serde(default)]
     pub stagnant: Option<StagnantDoc>,
     /// First day of the freezing season over which the freezing index is counted, as `MM-DD`
-    /// (default `07-01`, 1 July; use e.g. `01-01` in the southern hemisphere).
+    /// (default: the warmest day of the site's typical surface year, found from the climate, so
+    /// that no winter is cut in two in either hemisphere; the results say which day was used).
     #[serde(default)]
     pub season_start: Option<String>,
     /// Find the flow that keeps the water above freezing along a length of main in the coldest

@@ -16,8 +16,10 @@ pub struct Frost {
     pub margin_m: f64,
     /// A period without flow, s.
     pub stagnant_s: Option<f64>,
-    /// First day (month 1–12, day of month) of the freezing season the index is counted over.
-    pub season_start: (u32, u32),
+    /// First day (month 1–12, day of month) of the freezing season the index is counted over;
+    /// `None`: the warmest day of the typical surface year, so that the season is never cut in
+    /// two, in either hemisphere.
+    pub season_start: Option<(u32, u32)>,
     /// The flow that keeps the water above a temperature over a length of main.
     pub bleed: Option<FrostBleed>,
     /// An insulation board whose width above the main is to be found.

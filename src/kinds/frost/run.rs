@@ -18,6 +18,27 @@ use crate::results::*;
 pub const WATER_C_J_PER_M3_K: f64 = 4.218e6;
 /// Latent heat of freezing per m3 of water: 1000 kg/m3 × 333.55 kJ/kg (IAPWS).
 pub const WATER_LATENT_J_PER_M3: f64 = 333.55e6;
+/// The middle of the warmest half-year of a typical year of daily values (0-based, 365-day
+/// year) as (month, day): the centre of the 183-day window with the highest mean. It is the
+/// warmest day of a sinusoidal year and lies well inside the warm season of any other, so a
+/// freezing season counted from it never cuts a winter in two, north or south of the equator.
+/// The default start of the freezing season.
+fn warmest_day(daily: &[f64]) -> (u32, u32) {
+    const HALF: usize = 183;
+    let n = daily.len();
+    let mut sum: f64 = daily.iter().take(HALF).sum();
+    let (mut best, mut best_start) = (sum, 0);
+    for start in 1..n {
+        sum += daily[(start + HALF - 1) % n] - daily[start - 1];
+        if sum > best + 1e-9 {
+            (best, best_start) = (sum, start);
+        }
+    }
+    let d = (best_start + HALF / 2) % n;
+    let (_, month, day) = civil_from_days(days_from_civil(2001, 1, 1) + d as i64);
+    (month, day)
+}
+
 /// Day of the year (0-based, 365-day year) of a month and day.
 fn day_of_year((month, day): (u32, u32)) -> usize {
     (days_from_civil(2001, month, day) - days_from_civil(2001, 1, 1)) as usize
@@ -42,11 +63,12 @@ pub fn run(
     let daily: Vec<f64> = (0..365)
         .map(|d| year.surface_c((d as f64 + 0.5) * DAY_S))
         .collect();
-    let start_day = day_of_year(f.season_start);
+    let start = f.season_start.unwrap_or_else(|| warmest_day(&daily));
+    let start_day = day_of_year(start);
     let season: Vec<f64> = (0..365).map(|d| daily[(d + start_day) % 365]).collect();
     let n_f = air_n_factors(&climate).map_or(1.0, |n| n.freezing);
 
-    let (surface_index, air_index, basis, seasons) = design_index(f, &climate, &season, start_day, n_f)?;
+    let (surface_index, air_index, basis, seasons) = design_index(f, &climate, &season, start, n_f)?;
     if matches!(climate, Climate::MonthlyAir { .. }) && f.design_air_freezing_index_c_days.is_none() {
         warnings.push(warn(
             Level::Caution,
@@ -160,7 +182,7 @@ pub fn run(
         required_cover_m: None,
         margin_m: f.margin_m,
         stagnant: None,
-        season_start: season_start_text(f.season_start),
+        season_start: season_start_text(start),
         numerical: run.map(|(r, circle)| Box::new(numerical_figures(r, circle, winter.as_ref()))),
         bleed: None,
         board_width_m: None,
@@ -331,9 +353,10 @@ fn design_index(
     f: &Frost,
     climate: &Climate,
     season: &[f64],
-    start_day: usize,
+    start: (u32, u32),
     n_f: f64,
 ) -> Result<(f64, Option<f64>, String, Vec<SeasonFigure>), String> {
+    let start_day = day_of_year(start);
     if let Some(air_index) = f.design_air_freezing_index_c_days {
         return Ok((
             n_f * air_index,
@@ -378,7 +401,7 @@ fn design_index(
                 Vec::new(),
             ))
         }
-        Climate::Series(s) => series_index(f, s),
+        Climate::Series(s) => series_index(f, s, start),
         Climate::Constant { .. } => Err("a frost study needs a climate with seasons".into()),
     }
 }
@@ -386,6 +409,7 @@ fn design_index(
 fn series_index(
     f: &Frost,
     s: &crate::model::AirSeries,
+    start: (u32, u32),
 ) -> Result<(f64, Option<f64>, String, Vec<SeasonFigure>), String> {
     let per_day = (DAY_S / s.step_s).round().max(1.0) as usize;
     let daily_air: Vec<f64> = s
@@ -412,8 +436,8 @@ fn series_index(
                 daily_mean_c: v,
             },
             fp::MonthDay {
-                month: f.season_start.0,
-                day: f.season_start.1,
+                month: start.0,
+                day: start.1,
             },
         )
     };
@@ -423,7 +447,7 @@ fn series_index(
         return Err(format!(
             "the temperature file `{}` holds no complete freezing season (a year from {}); give at least one",
             s.source,
-            season_start_text(f.season_start)
+            season_start_text(start)
         ));
     }
     let seasons: Vec<SeasonFigure> = surface

@@ -96,7 +96,7 @@ pub fn validate(doc: &FrostDoc, path: &KeyPath, v: &mut Validator) -> Option<Fro
             .map(Some),
     };
     let season_start = match &doc.season_start {
-        None => Some((7, 1)),
+        None => Some(None),
         Some(text) => {
             let md = month_day(text);
             if md.is_none() {
@@ -105,7 +105,7 @@ pub fn validate(doc: &FrostDoc, path: &KeyPath, v: &mut Validator) -> Option<Fro
                     format!("`{text}` is not a day of the year; write it as MM-DD, e.g. 07-01 (29 February is not allowed)"),
                 );
             }
-            md
+            md.map(Some)
         }
     };
     let bleed = match &doc.bleed {
