@@ -163,8 +163,30 @@ fn sizing_picks_the_thinnest_candidate_meeting_the_limit() {
         .unwrap()
         .insulation_thickness_m;
     assert_eq!(s.chosen_insulation_thickness_m, Some(thinnest_ok));
+    // The check holds the chosen candidate's own loss to the limit, the same figure the results
+    // give for it.
+    let study = &r.studies[0];
+    let check = study
+        .checks
+        .iter()
+        .find(|c| c.code == "heat_loss.loss_limit")
+        .unwrap();
+    let chosen_loss = s.chosen_heat_loss_w_per_m.unwrap();
+    assert!(check.passed && check.value == Some(chosen_loss) && chosen_loss <= 25.0);
+    let figure = study
+        .decisive_figures
+        .iter()
+        .find(|f| f.key == "sizing.chosen_heat_loss_w_per_m")
+        .unwrap();
+    assert_eq!(figure.value, chosen_loss);
     // A limit no candidate meets: none chosen, and a caution says so.
     let r = run(&sizing_site(1.0));
+    let failed = r.studies[0]
+        .checks
+        .iter()
+        .find(|c| c.code == "heat_loss.loss_limit")
+        .unwrap();
+    assert!(!failed.passed && failed.value.unwrap() > 1.0);
     assert_eq!(
         heat_loss(&r)
             .sizing

@@ -58,20 +58,15 @@ impl Kind for HeatLossKind {
     }
 
     fn decisive_figures(r: &Self::Result) -> Vec<DecisiveFigure> {
-        let limited = r
-            .sizing
-            .as_ref()
-            .is_some_and(|z| z.heat_loss_limit_w_per_m.is_some());
-        let mut loss = DecisiveFigure::new(
+        // The study's own loss is that of the thickness the site file gives; the sizing's
+        // limit holds the chosen candidate's loss (`sizing.chosen_heat_loss_w_per_m`).
+        let loss = DecisiveFigure::new(
             "total_heat_loss_w_per_m",
             r.total_heat_loss_w_per_m,
             "W/m",
             "heat loss per metre of trench",
             Worse::Higher,
         );
-        if limited {
-            loss = loss.checked_by("heat_loss.loss_limit");
-        }
         let mut out = vec![
             loss,
             DecisiveFigure::new(
@@ -92,6 +87,18 @@ impl Kind for HeatLossKind {
                     Worse::Higher,
                 )
                 .sized()
+                .checked_by("heat_loss.loss_limit"),
+            );
+        }
+        if let Some(q) = r.sizing.as_ref().and_then(|z| z.chosen_heat_loss_w_per_m) {
+            out.push(
+                DecisiveFigure::new(
+                    "sizing.chosen_heat_loss_w_per_m",
+                    q,
+                    "W/m",
+                    "heat loss with the chosen insulation",
+                    Worse::Higher,
+                )
                 .checked_by("heat_loss.loss_limit"),
             );
         }

@@ -85,6 +85,10 @@ pub struct SizingResult {
     pub layer: String,
     /// The thinnest candidate meeting the limit (absent when none does or no limit was given).
     pub chosen_insulation_thickness_m: Option<f64>,
+    /// The trench loss of the chosen candidate, W/m: the figure the sizing held to the limit
+    /// (the study's own `total_heat_loss_w_per_m` is that of the thickness the site file gives).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub chosen_heat_loss_w_per_m: Option<f64>,
     #[serde(skip_serializing_if = "Option::is_none")]
     pub heat_loss_limit_w_per_m: Option<f64>,
     /// The candidate with the lowest life-cycle cost, when economics were given.

@@ -581,9 +581,16 @@ fn sizing(
         .then(|| cheapest(&costs))
         .flatten()
         .map(|i| candidates[i].insulation_thickness_m);
+    let chosen_loss = chosen.and_then(|t| {
+        candidates
+            .iter()
+            .find(|c| c.insulation_thickness_m == t)
+            .map(|c| c.heat_loss_w_per_m)
+    });
     Ok(SizingResult {
         layer: s.layer.clone(),
         chosen_insulation_thickness_m: chosen,
+        chosen_heat_loss_w_per_m: chosen_loss,
         heat_loss_limit_w_per_m: s.heat_loss_limit_w_per_m,
         cheapest_insulation_thickness_m: cheapest_t,
         candidates,
