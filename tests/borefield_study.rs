@@ -198,6 +198,53 @@ fn building_loads_become_ground_loads_by_cop_and_eer() {
     );
 }
 
+/// Heating and cooling in the same month are netted into one monthly ground load (exact for
+/// the mean: superposition is linear), but neither direction's peak nor the gross energies are
+/// lost. 38 MWh of heating at COP 4 takes 28.5 MWh from the ground and 20 MWh of cooling at
+/// EER 4 gives 25 MWh back in January (hand calculation): gross 28.5 / 25 MWh, net 3.5 / 0 MWh.
+/// With a 60 kW heating peak (45 kW from the ground) the fluid in January is exactly that of a
+/// field given the net 3.5 MWh with the 45 kW peak from the ground on it.
+#[test]
+fn heating_and_cooling_in_one_month_keep_their_peaks_and_gross_energies() {
+    let zeros = "0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0";
+    let building = format!(
+        "
+      building:
+        heating: [38 MWh, {zeros}]
+        cooling: [20 MWh, {zeros}]
+        peak: {{heating: [60 kW, {zeros}]}}
+        cop: 4
+        eer: 4"
+    );
+    let net = format!(
+        "
+      monthly:
+        from_ground: [3.5 MWh, {zeros}]
+        to_ground: [0, {zeros}]
+        peak: {{from_ground: [45 kW, {zeros}]}}"
+    );
+    let result = |loads: &str| {
+        run(&site_text(&format!(
+            "{}    design_life: 1 year\n",
+            study(ONE, 120.0, loads, MEASURED)
+        )))
+    };
+    let rb = result(&building);
+    let rn = result(&net);
+    let (b, n) = (borefield(&rb, 0), borefield(&rn, 0));
+    let a = &b.annual_loads;
+    assert!((a.from_ground_mwh - 28.5).abs() < 1e-9 && (a.to_ground_mwh - 25.0).abs() < 1e-9);
+    assert!((a.net_from_ground_mwh - 3.5).abs() < 1e-9 && a.net_to_ground_mwh.abs() < 1e-9);
+    assert_eq!(a.netted_months, 1);
+    assert!(rb.warnings.iter().any(|w| w.code == "borefield.netted_months"));
+    assert!((b.months[0].min_c - n.months[0].min_c).abs() < 1e-9);
+    assert!((b.months[0].mean_c - n.months[0].mean_c).abs() < 1e-9);
+    assert!(
+        b.months[0].min_c < b.months[0].mean_c - 0.5,
+        "the heating peak is kept"
+    );
+}
+
 /// A peak pulse of duration t_p and amplitude (peak − mean) lowers the mean fluid temperature by
 /// (P̂ − P̄)/H · (g(t_p)/(2πk) + R_b*) below the month's mean-load value (hand calculation from
 /// the superposition of one extra step).
@@ -370,8 +417,13 @@ fn antifreeze_margin_below_three_kelvin_is_danger() {
         .find(|w| w.code == "borefield.antifreeze_margin")
         .expect("antifreeze warning");
     assert_eq!(w.level, Level::Danger);
-    assert!(w.message.contains("above the freezing point"), "{}", w.message);
-    assert!(borefield(&r, 0).fluid_freezing_point_c == 0.0);
+    // The coldest fluid here lies below 0 °C (the limit is on the mean, the inlet is colder):
+    // the message says the water would freeze and by how much, with the right sign (it once
+    // read "only -4.4 K above the freezing point").
+    let b = borefield(&r, 0);
+    assert!(b.fluid_freezing_point_c == 0.0 && b.coldest_fluid_c < 0.0);
+    let below = format!("{:.1} K below the freezing point", -b.coldest_fluid_c);
+    assert!(w.message.contains("would freeze") && w.message.contains(&below), "{}", w.message);
 }
 
 /// A slow flow of cold glycol is laminar (Re below 2300): caution.

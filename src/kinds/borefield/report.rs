@@ -232,7 +232,15 @@ pub fn section(b: &BorefieldResult) -> Markup {
             ))
             (row(
                 html! { "Ground loads per year: from the ground; to the ground" },
-                html! { (format!("{:.1} MWh; {:.1} MWh", b.annual_loads.from_ground_mwh, b.annual_loads.to_ground_mwh)) },
+                html! {
+                    (format!("{:.1} MWh; {:.1} MWh", b.annual_loads.from_ground_mwh, b.annual_loads.to_ground_mwh))
+                    @if b.annual_loads.netted_months > 0 {
+                        (format!(
+                            " gross; {:.1} MWh; {:.1} MWh net of the {} month(s) that flow both ways",
+                            b.annual_loads.net_from_ground_mwh, b.annual_loads.net_to_ground_mwh, b.annual_loads.netted_months
+                        ))
+                    }
+                },
             ))
             (row(
                 html! { "Mean fluid temperature, lowest / highest over the design life" },

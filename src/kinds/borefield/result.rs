@@ -135,8 +135,17 @@ pub struct BorefieldSizing {
 
 #[derive(Clone, Copy, Debug, Serialize)]
 pub struct AnnualGroundLoads {
+    /// Gross heat taken from and given to the ground in a year, as the loads give it (each
+    /// month's energy in each direction), MWh.
     pub from_ground_mwh: f64,
     pub to_ground_mwh: f64,
+    /// The same after netting the two directions within each month, MWh: what the monthly
+    /// means that drive the ground carry (netting is exact for the mean; each direction's peak
+    /// is superposed on the net base).
+    pub net_from_ground_mwh: f64,
+    pub net_to_ground_mwh: f64,
+    /// Months in which heat flows both ways, so that netting hides energy.
+    pub netted_months: usize,
 }
 
 /// Mean fluid temperatures of one month of the design life, °C.

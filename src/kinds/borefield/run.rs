@@ -212,20 +212,62 @@ impl Loads {
         }
     }
 
-    /// Heat taken from and given to the ground in one year, MWh.
-    pub fn annual(&self) -> AnnualGroundLoads {
-        let (from_ground_j, to_ground_j) = match self {
+    /// Heat taken from and given to the ground in one year after netting within each month
+    /// (what drives the ground), J.
+    fn net_annual_j(&self) -> (f64, f64) {
+        match self {
             Loads::Monthly { mean_w, .. } => mean_w.iter().fold((0.0, 0.0), |(e, i), q| {
                 (e + (-q).max(0.0) * MONTH_S, i + q.max(0.0) * MONTH_S)
             }),
             Loads::Hourly(q) => q.iter().fold((0.0, 0.0), |(e, i), q| {
                 (e + (-q).max(0.0) * HOUR_S, i + q.max(0.0) * HOUR_S)
             }),
-        };
-        AnnualGroundLoads {
-            from_ground_mwh: from_ground_j / (1e6 * HOUR_S),
-            to_ground_mwh: to_ground_j / (1e6 * HOUR_S),
         }
+    }
+}
+
+/// The year's ground loads, gross (as the loads give them, each direction of each month) and net
+/// (the directions of a month netted, as the monthly means carry them).
+pub fn annual_loads(model: &GroundLoads, loads: &Loads) -> AnnualGroundLoads {
+    let mwh = |j: f64| j / (1e6 * HOUR_S);
+    let (net_from, net_to) = loads.net_annual_j();
+    let months = |from: &[f64; 12], to: &[f64; 12]| {
+        (
+            from.iter().sum::<f64>(),
+            to.iter().sum::<f64>(),
+            from.iter()
+                .zip(to)
+                .filter(|(f, t)| **f > 0.0 && **t > 0.0)
+                .count(),
+        )
+    };
+    let (gross_from, gross_to, netted) = match model {
+        GroundLoads::Monthly {
+            from_ground_j,
+            to_ground_j,
+            ..
+        } => months(from_ground_j, to_ground_j),
+        GroundLoads::Building {
+            heating_j,
+            cooling_j,
+            cop,
+            eer,
+            ..
+        } => {
+            let from: [f64; 12] =
+                std::array::from_fn(|m| ground_from_building(heating_j[m], cooling_j[m], *cop, *eer).0);
+            let to: [f64; 12] =
+                std::array::from_fn(|m| ground_from_building(heating_j[m], cooling_j[m], *cop, *eer).1);
+            months(&from, &to)
+        }
+        GroundLoads::Hourly { .. } | GroundLoads::Constant { .. } => (net_from, net_to, 0),
+    };
+    AnnualGroundLoads {
+        from_ground_mwh: mwh(gross_from),
+        to_ground_mwh: mwh(gross_to),
+        net_from_ground_mwh: mwh(net_from),
+        net_to_ground_mwh: mwh(net_to),
+        netted_months: netted,
     }
 }
 
@@ -946,6 +988,7 @@ fn result(
         last_year_max_c: last.1,
     };
     let sized_run = sized.is_some();
+    let annual = annual_loads(&b.loads, &d.loads);
     let mut warnings = Vec::new();
     let mut warn = |level, code: &str, message: String| {
         warnings.push(Warning {
@@ -1057,6 +1100,20 @@ fn result(
             ),
         );
     }
+    if annual.netted_months > 0 {
+        warn(
+            Level::Info,
+            "borefield.netted_months",
+            format!(
+                "in {} month(s) heat flows both from and to the ground; the monthly mean nets the two ({:.1} MWh from and {:.1} MWh to the ground in a year, gross; {:.1} and {:.1} MWh net), which is exact for the mean, and each direction's peak is superposed on the net base",
+                annual.netted_months,
+                annual.from_ground_mwh,
+                annual.to_ground_mwh,
+                annual.net_from_ground_mwh,
+                annual.net_to_ground_mwh
+            ),
+        );
+    }
     if hydraulic_t != coldest {
         warn(
             Level::Caution,
@@ -1161,7 +1218,7 @@ fn result(
             length_for_max_fluid_m: s.length_for_max_m,
             g_function_lengths_m: s.node_lengths_m,
         }),
-        annual_loads: d.loads.annual(),
+        annual_loads: annual,
         design_life_years: b.design_life_months as f64 / 12.0,
         months: e.months.clone(),
         month_marks: e
