@@ -423,7 +423,11 @@ fn antifreeze_margin_below_three_kelvin_is_danger() {
     let b = borefield(&r, 0);
     assert!(b.fluid_freezing_point_c == 0.0 && b.coldest_fluid_c < 0.0);
     let below = format!("{:.1} K below the freezing point", -b.coldest_fluid_c);
-    assert!(w.message.contains("would freeze") && w.message.contains(&below), "{}", w.message);
+    assert!(
+        w.message.contains("would freeze") && w.message.contains(&below),
+        "{}",
+        w.message
+    );
 }
 
 /// A slow flow of cold glycol is laminar (Re below 2300): caution.

@@ -165,3 +165,80 @@ fn out_never_moves_a_file_or_a_foreign_folder_aside() {
     let (code, out) = burrow(&["run", "site.yaml", "--quiet", "--out", "bundle"], &dir);
     assert_eq!(code, Some(0), "{out}");
 }
+
+const SECTION: &str = "site: {name: Ottery Gate}
+climate: {model: annual-wave, mean: 9 °C, amplitude: 9 K, coldest_day: 30}
+ground:
+  layers: [{name: loam, conductivity: 1.3 W/(m K), heat_capacity: 2.4 MJ/(m3 K)}]
+studies:
+  - id: loop
+    kind: cross-section
+    domain: {width: 6 m, depth: 6 m}
+    cell_size: {min: 0.05 m, max: 0.5 m}
+    time: {duration: 120 d, step: 6 h}
+    pipes:
+      - {id: a, depth: 1.3 m, outer_diameter: 40 mm, heat_to_ground: -12 W/m}
+";
+
+#[test]
+fn a_run_too_large_to_finish_is_refused_before_anything_is_allocated() {
+    assert!(errors(SECTION).is_empty(), "{:?}", errors(SECTION));
+    // 1000 years at 1 s steps once asked for ~250 GB and aborted the process.
+    let e = errors(&SECTION.replace(
+        "{duration: 120 d, step: 6 h}",
+        "{duration: 1000 years, step: 1 s}",
+    ));
+    assert!(
+        e.iter().any(|m| m.contains("studies[0].time.step")
+            && m.contains("steps")
+            && m.contains("take a step of at least")),
+        "{e:?}"
+    );
+    let e = errors(&SECTION.replace("{min: 0.05 m, max: 0.5 m}", "{min: 0.1 mm, max: 1 mm}"));
+    assert!(
+        e.iter()
+            .any(|m| m.contains("cells") && m.contains("larger cells")),
+        "{e:?}"
+    );
+    let many: Vec<String> = (1..=150).map(|d| format!("{d} h")).collect();
+    let e = errors(&SECTION.replace(
+        "time: {duration: 120 d, step: 6 h}",
+        &format!(
+            "time: {{duration: 120 d, step: 6 h}}\n    snapshots: [{}]",
+            many.join(", ")
+        ),
+    ));
+    assert!(e.iter().any(|m| m.contains("at most 100 fields")), "{e:?}");
+}
+
+#[test]
+fn values_beyond_anything_physical_are_refused_where_they_are_written() {
+    for (from, to, path) in [
+        (
+            "conductivity: 1.3 W/(m K)",
+            "conductivity: 1e308",
+            "ground.layers[0].conductivity",
+        ),
+        (
+            "conductivity: 1.3 W/(m K)",
+            "conductivity: 1e50 W/(m K)",
+            "ground.layers[0].conductivity",
+        ),
+        (
+            "conductivity: 1.3 W/(m K)",
+            "conductivity: 1e10",
+            "ground.layers[0].conductivity",
+        ),
+        (
+            "{name: loam, conductivity",
+            "{name: loam, thickness: 1e308 m, conductivity",
+            "ground.layers[0].thickness",
+        ),
+    ] {
+        let e = errors(&SECTION.replace(from, to));
+        assert!(
+            e.iter().any(|m| m.contains(path) && m.contains("beyond any")),
+            "{to}: {e:?}"
+        );
+    }
+}

@@ -345,7 +345,46 @@ fn checked(value: f64, t: &str, dim: Dimension) -> Result<f64, UnitError> {
             "`{t}` is below absolute zero (-273.15 °C, -459.67 °F, 0 K); give a real temperature"
         )));
     }
+    if let Some(bound) = dim.physical_bound()
+        && value.abs() > bound
+    {
+        return Err(UnitError(format!(
+            "`{t}` is beyond any {} a site file can hold (at most {} in size); check the value and its unit",
+            dim.describe().trim_start_matches("a ").trim_start_matches("an "),
+            format_quantity(bound, dim)
+        )));
+    }
     Ok(value)
+}
+
+impl Dimension {
+    /// The largest magnitude of this dimension any key of a site file can meaningfully take, in
+    /// the returned unit: far beyond every physical value (a soil's conductivity is a few
+    /// W/(m K), silver's 430), so that a value past it is a slip, and so that no later
+    /// computation sizes an allocation from it. Each key's own plausible range is narrower and
+    /// checked in validation.
+    fn physical_bound(self) -> Option<f64> {
+        Some(match self {
+            D::Length => 1e6,
+            D::Temperature | D::TemperatureDifference => 1e4,
+            D::Time => 1e11,
+            D::Conductivity => 1e4,
+            D::VolumetricHeatCapacity => 1e9,
+            D::SpecificHeatCapacity => 1e6,
+            D::Density => 1e5,
+            D::Power => 1e12,
+            D::LinearHeatRate => 1e7,
+            D::HeatFlux => 1e8,
+            D::Energy => 1e18,
+            D::VolumeFlow => 1e3,
+            D::MassFlow => 1e6,
+            D::Velocity => 1e3,
+            D::Pressure => 1e10,
+            D::LinearResistance | D::ArealResistance => 1e6,
+            D::DegreeDays => 1e6,
+            D::Fraction | D::Dimensionless => return None,
+        })
+    }
 }
 
 /// Converts an absolute temperature written with a lone scale unit to °C.

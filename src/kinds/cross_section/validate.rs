@@ -234,11 +234,87 @@ fn geometry(s: &CrossSection, path: &KeyPath, v: &mut Validator) -> bool {
             }
         }
     }
+    ok &= resources(s, path, v);
     if s.cell_min_m > s.width_m.min(s.depth_m) / 10.0 {
         v.out.warning(
             &path.key("cell_size").key("min"),
             "the smallest cell is more than a tenth of the section; results will be coarse",
         );
+    }
+    ok
+}
+
+/// Most time steps a run may take.
+pub const MAX_STEPS: f64 = 5e6;
+/// Most cells a section may have.
+pub const MAX_CELLS: f64 = 2e6;
+/// Most cell-steps (cells × steps) a run may do: a few hours of computing on one core.
+pub const MAX_CELL_STEPS: f64 = 2e10;
+/// Most field snapshots a run may keep.
+pub const MAX_SNAPSHOTS: usize = 100;
+
+/// Cells of one graded axis of length `length_m`, from above: the largest cells fill it, and
+/// every refined place (the surface, each pipe or inclusion edge) adds a geometric run from the
+/// smallest to the largest cell on each side at the engine's growth ratio (1.15).
+fn axis_cells(length_m: f64, cell_min_m: f64, cell_max_m: f64, refined: usize) -> f64 {
+    let run = (cell_max_m / cell_min_m).max(1.0).ln() / 1.15_f64.ln() + 1.0;
+    length_m / cell_max_m + 2.0 * (refined as f64 + 1.0) * run
+}
+
+/// Refuses, before anything is allocated, a run too large for a design tool to finish: too
+/// many steps, cells or snapshots, or too much work. Each message says what would fit.
+fn resources(s: &CrossSection, path: &KeyPath, v: &mut Validator) -> bool {
+    let features = s.pipes.len() + 2 * s.inclusions.len();
+    let cells = axis_cells(s.width_m, s.cell_min_m, s.cell_max_m, features)
+        * axis_cells(s.depth_m, s.cell_min_m, s.cell_max_m, features);
+    let mut ok = true;
+    if cells > MAX_CELLS {
+        v.out.error(
+            &path.key("cell_size"),
+            format!(
+                "the section would need about {} cells, more than the {} burrow runs; give larger cells or a smaller domain",
+                round_sig(cells.round()),
+                MAX_CELLS
+            ),
+        );
+        ok = false;
+    }
+    if s.snapshots_s.len() > MAX_SNAPSHOTS {
+        v.out.error(
+            &path.key("snapshots"),
+            format!(
+                "{} snapshots are asked for; at most {MAX_SNAPSHOTS} fields are kept (each is a whole field of the section)",
+                s.snapshots_s.len()
+            ),
+        );
+        ok = false;
+    }
+    if let SectionTime::Transient { duration_s, step_s } = s.time {
+        let steps = duration_s / step_s;
+        let p = path.key("time").key("step");
+        if steps > MAX_STEPS {
+            v.out.error(
+                &p,
+                format!(
+                    "the run would take {} steps, more than the {} burrow runs; take a step of at least {} h or a shorter duration",
+                    round_sig(steps.round()),
+                    MAX_STEPS,
+                    round_sig((duration_s / MAX_STEPS / crate::numerics::time::HOUR_S * 1000.0).ceil() / 1000.0)
+                ),
+            );
+            ok = false;
+        } else if cells <= MAX_CELLS && cells * steps > MAX_CELL_STEPS {
+            v.out.error(
+                &p,
+                format!(
+                    "about {} cells over {} steps is more work than burrow does in one run (at most {} cell-steps); take a longer step, larger cells or a shorter duration",
+                    round_sig(cells.round()),
+                    round_sig(steps.round()),
+                    MAX_CELL_STEPS
+                ),
+            );
+            ok = false;
+        }
     }
     ok
 }
