@@ -67,10 +67,15 @@ pub struct Q<D> {
 
 impl<D: Dim> Q<D> {
     /// The value in the model's unit for this dimension (see [`Dimension::plain_unit`]).
+    /// The value in the model's unit, refused when it cannot be read or lies beyond anything
+    /// physical of its dimension ([`units::within_physical_bound`]).
     pub fn value(&self) -> Result<f64, UnitError> {
         match &self.raw {
-            RawQuantity::Number(x) => units::plain_number(*x, D::DIM),
-            RawQuantity::Text(t) => units::parse_quantity(t, D::DIM),
+            RawQuantity::Number(x) => units::plain_number(*x, D::DIM)
+                .and_then(|v| units::within_physical_bound(v, &x.to_string(), D::DIM)),
+            RawQuantity::Text(t) => {
+                units::parse_quantity(t, D::DIM).and_then(|v| units::within_physical_bound(v, t, D::DIM))
+            }
         }
     }
 

@@ -345,16 +345,20 @@ fn checked(value: f64, t: &str, dim: Dimension) -> Result<f64, UnitError> {
             "`{t}` is below absolute zero (-273.15 °C, -459.67 °F, 0 K); give a real temperature"
         )));
     }
-    if let Some(bound) = dim.physical_bound()
-        && value.abs() > bound
-    {
-        return Err(UnitError(format!(
-            "`{t}` is beyond any {} a site file can hold (at most {} in size); check the value and its unit",
+    Ok(value)
+}
+
+/// Refuses a converted value past [`Dimension::physical_bound`]: `written` is the value as the
+/// site file gives it, for the message.
+pub fn within_physical_bound(value: f64, written: &str, dim: Dimension) -> Result<f64, UnitError> {
+    match dim.physical_bound() {
+        Some(bound) if value.abs() > bound => Err(UnitError(format!(
+            "`{written}` is beyond any {} a site file can hold (at most {} in size); check the value and its unit",
             dim.describe().trim_start_matches("a ").trim_start_matches("an "),
             format_quantity(bound, dim)
-        )));
+        ))),
+        _ => Ok(value),
     }
-    Ok(value)
 }
 
 impl Dimension {
@@ -363,7 +367,7 @@ impl Dimension {
     /// W/(m K), silver's 430), so that a value past it is a slip, and so that no later
     /// computation sizes an allocation from it. Each key's own plausible range is narrower and
     /// checked in validation.
-    fn physical_bound(self) -> Option<f64> {
+    pub fn physical_bound(self) -> Option<f64> {
         Some(match self {
             D::Length => 1e6,
             D::Temperature | D::TemperatureDifference => 1e4,
