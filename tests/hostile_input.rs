@@ -75,7 +75,7 @@ fn unit_strings_that_nest_or_grow_are_refused_with_a_sentence() {
     let wrap = SITE.replace("amplitude: 9 K", "amplitude: 9 ((((K99)99)99)99)");
     let e = errors(&wrap);
     assert!(e.iter().any(|m| m.contains("beyond ±12")), "{e:?}");
-    let digits = SITE.replace("amplitude: 9 K", "amplitude: 9 K1234567890");
+    let digits = SITE.replace("amplitude: 9 K", "amplitude: 9 K123456789012");
     assert!(!errors(&digits).is_empty());
 }
 

@@ -609,9 +609,9 @@ fn tokenize(unit: &str) -> Result<Vec<Tok>, String> {
             let negative = matches!(chars.get(j), Some('-' | '⁻'));
             j += usize::from(negative || chars.get(j) == Some(&'+'));
             let start = j;
-            let mut n = 0;
+            let mut n: i32 = 0;
             while let Some(d) = chars.get(j).and_then(|&c| digit(c)) {
-                n = n * 10 + d;
+                n = n.saturating_mul(10).saturating_add(d);
                 j += 1;
             }
             if j == start && c == '-' {
