@@ -175,6 +175,9 @@ pub fn compute(
             surface_daily_c: undisturbed.surface_daily_c(),
             surface_mean_c: undisturbed.envelope_at(0.0).0,
             max_frost_depth_m: undisturbed.max_frost_depth_m(depth),
+            permafrost: undisturbed
+                .permafrost(depth)
+                .map(|p| results::PermafrostFigures::from_profile(&p)),
             spin_up_years: undisturbed.spin_up_years,
             energy_balance_relative_error: undisturbed.energy_balance_relative_error,
         },

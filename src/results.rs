@@ -51,13 +51,40 @@ pub struct GroundResults {
     pub surface_daily_c: Vec<f64>,
     /// Mean of the surface temperature over the year.
     pub surface_mean_c: f64,
-    /// Deepest depth at which the soil freezes in the typical year (0 when it never does).
-    pub max_frost_depth_m: f64,
+    /// Deepest depth at which the soil freezes in the typical year (0 when it never does; null
+    /// when it is still frozen at the bottom of the profile, as in permafrost).
+    pub max_frost_depth_m: Option<f64>,
+    /// Perennially frozen ground, when the undisturbed annual maximum lies below 0 °C at some
+    /// depth.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub permafrost: Option<PermafrostFigures>,
     /// Years of spin-up the numerical profile needed (0 for the closed form).
     pub spin_up_years: usize,
     /// |heat in − heat out − Δstored| / throughput of the numerical profile's last year.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub energy_balance_relative_error: Option<f64>,
+}
+
+/// Perennially frozen ground in the undisturbed profile.
+#[derive(Clone, Copy, Debug, Serialize, PartialEq)]
+pub struct PermafrostFigures {
+    /// Depth of the seasonal thaw (the layer that thaws and refreezes each year).
+    pub active_layer_depth_m: f64,
+    /// Depth of the top of the perennially frozen ground (deeper than the active layer where an
+    /// unfrozen layer lies between them).
+    pub permafrost_table_depth_m: f64,
+    /// Mean annual ground temperature below the annual swing.
+    pub mean_annual_ground_temperature_c: f64,
+}
+
+impl PermafrostFigures {
+    pub fn from_profile(p: &crate::ground::profile::Permafrost) -> Self {
+        Self {
+            active_layer_depth_m: p.active_layer_m,
+            permafrost_table_depth_m: p.table_m,
+            mean_annual_ground_temperature_c: p.mean_annual_c,
+        }
+    }
 }
 
 #[derive(Clone, Copy, Debug, Serialize, PartialEq)]

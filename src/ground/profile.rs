@@ -56,6 +56,18 @@ enum Field {
 }
 
 /// Options of the numerical column (defaults in [`ColumnOptions`] terms).
+/// Perennially frozen ground found in the undisturbed profile ([`Undisturbed::permafrost`]).
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Permafrost {
+    /// Depth to which the ground thaws and refreezes each year, m.
+    pub active_layer_m: f64,
+    /// Depth of the top of the perennially frozen ground, m.
+    pub table_m: f64,
+    /// Mean annual ground temperature, °C, and the depth it is read at, m.
+    pub mean_annual_c: f64,
+    pub depth_of_mean_m: f64,
+}
+
 pub fn column_options(depth_m: f64) -> ColumnOptions {
     ColumnOptions {
         depth_m,
@@ -185,21 +197,57 @@ impl Undisturbed {
     }
 
     /// Deepest depth reached by the 0 °C isotherm over the year (0 when the ground never freezes),
-    /// found on a 1 cm scan and refined linearly.
-    pub fn max_frost_depth_m(&self, depth_m: f64) -> f64 {
+    /// found on a 1 cm scan and refined linearly; `None` when the ground is still frozen at
+    /// `depth_m` (permafrost, or frost deeper than the profile): a model boundary is not a frost
+    /// depth.
+    pub fn max_frost_depth_m(&self, depth_m: f64) -> Option<f64> {
         let step = 0.01;
         let n = (depth_m / step).round() as usize;
         let mins: Vec<f64> = (0..=n).map(|i| self.envelope_at(i as f64 * step).1).collect();
         if mins[0] >= 0.0 {
-            return 0.0;
+            return Some(0.0);
         }
         match mins.iter().rposition(|&t| t < 0.0) {
             Some(i) if i < n => {
                 let (a, b) = (mins[i], mins[i + 1]);
-                (i as f64 + a / (a - b)) * step
+                Some((i as f64 + a / (a - b)) * step)
             }
-            _ => depth_m,
+            _ => None,
         }
+    }
+
+    /// Perennially frozen ground: present when the annual maximum lies below 0 °C at some depth
+    /// down to `depth_m` (a 1 cm scan, crossings refined linearly). The permafrost table is the
+    /// shallowest depth whose annual maximum is below 0 °C; the active layer, the ground above
+    /// it that freezes and thaws each year, ends there too, unless an unfrozen layer (its annual
+    /// minimum above 0 °C, a talik) lies between: the active layer then ends where the winter's
+    /// frost from the surface stops. The mean annual ground temperature is the annual mean at the
+    /// depth where the annual swing falls below 0.1 K (or at `depth_m`).
+    pub fn permafrost(&self, depth_m: f64) -> Option<Permafrost> {
+        let step = 0.01;
+        let n = (depth_m / step).round() as usize;
+        let rows: Vec<(f64, f64, f64)> = (0..=n).map(|i| self.envelope_at(i as f64 * step)).collect();
+        let cross = |i: usize, f: fn(&(f64, f64, f64)) -> f64| {
+            if i == 0 {
+                return 0.0;
+            }
+            let (a, b) = (f(&rows[i - 1]), f(&rows[i]));
+            (i as f64 - 1.0 + a / (a - b)) * step
+        };
+        let table_i = rows.iter().position(|r| r.2 < 0.0)?;
+        let table_m = cross(table_i, |r| r.2);
+        let talik = rows[..table_i].iter().position(|r| r.1 > 0.0);
+        let active_layer_m = match talik {
+            Some(i) => cross(i, |r| r.1),
+            None => table_m,
+        };
+        let still = rows.iter().position(|r| r.2 - r.1 < 0.1).unwrap_or(n);
+        Some(Permafrost {
+            active_layer_m,
+            table_m,
+            mean_annual_c: rows[still].0,
+            depth_of_mean_m: still as f64 * step,
+        })
     }
 
     /// Mean temperature at depth `z_m` in each of the twelve equal months (January first), °C:

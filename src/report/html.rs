@@ -143,13 +143,25 @@ fn summary(r: &Results) -> Markup {
                 td { "Surface temperature range over the year" }
                 td.n { (format!("{surface_min:.1} to {surface_max:.1} °C")) }
             }
-            tr {
-                td { "Deepest frost in the undisturbed ground" }
-                td.n {
-                    @if g.max_frost_depth_m > 0.0 {
-                        (format!("{:.2} m", g.max_frost_depth_m))
-                    } @else {
-                        "none"
+            @if let Some(p) = &g.permafrost {
+                tr {
+                    td { "Permafrost: active layer; permafrost table; mean annual ground temperature" }
+                    td.n {
+                        (format!(
+                            "{:.2} m; {:.2} m; {:.1} °C",
+                            p.active_layer_depth_m, p.permafrost_table_depth_m, p.mean_annual_ground_temperature_c
+                        ))
+                    }
+                }
+            } @else {
+                tr {
+                    td { "Deepest frost in the undisturbed ground" }
+                    td.n {
+                        @match g.max_frost_depth_m {
+                            Some(d) if d > 0.0 => (format!("{d:.2} m")),
+                            Some(_) => "none",
+                            None => "below the profile's depth",
+                        }
                     }
                 }
             }
@@ -597,7 +609,8 @@ mod tests {
                 profile_method: "closed-form".into(),
                 surface_daily_c: vec![0.0],
                 surface_mean_c: 0.0,
-                max_frost_depth_m: 0.0,
+                max_frost_depth_m: Some(0.0),
+                permafrost: None,
                 spin_up_years: 0,
                 energy_balance_relative_error: None,
             },

@@ -16,6 +16,8 @@ use crate::results::*;
 
 /// Largest ratio of neighbouring cells of the grid.
 const GROWTH_RATIO: f64 = 1.15;
+/// A frost depth within the lowest 5 % of the section is taken as the section's bottom.
+const BOTTOM_SHARE: f64 = 0.95;
 /// Most records kept of a series for the report and CSV (longer runs are thinned evenly).
 const MAX_RECORDS: usize = 3000;
 /// Heat-flux arrows across the width of a field plot.
@@ -37,13 +39,30 @@ pub fn run(
         growth_ratio: GROWTH_RATIO,
         cells_across_pipe: 10,
     };
-    let result = match s.time {
+    let mut result = match s.time {
         SectionTime::Steady => steady_result(s, &model, &grid)?,
         SectionTime::Transient { duration_s, step_s } => {
             transient_result(s, site, ground, &model, grid, duration_s, step_s)?
         }
     };
     let mut warnings = Vec::new();
+    // Frost at the bottom of the section is the model's boundary, not a depth of the ground.
+    let bottom = BOTTOM_SHARE * s.depth_m;
+    if result.max_frost_depth_m.is_some_and(|d| d >= bottom) {
+        warnings.push(Warning {
+            study: Some(id.to_string()),
+            level: Level::Caution,
+            code: "cross_section.domain_too_shallow".into(),
+            message: format!(
+                "the frost reaches the bottom of the {:.1} m deep section, so the section is too shallow to give a frost depth; make `domain.depth` larger",
+                s.depth_m
+            ),
+        });
+        result.max_frost_depth_m = None;
+        if result.final_frost_depth_m.is_some_and(|d| d >= bottom) {
+            result.final_frost_depth_m = None;
+        }
+    }
     if result.energy_balance_relative_error > 1e-4 {
         warnings.push(Warning {
             study: Some(id.to_string()),

@@ -58,22 +58,49 @@ impl Kind for FrostKind {
     }
 
     fn decisive_figures(r: &Self::Result) -> Vec<DecisiveFigure> {
-        let mut out = vec![
-            DecisiveFigure::new(
+        let mut out = Vec::new();
+        if let Some(d) = r.max_frost_depth_m {
+            out.push(DecisiveFigure::new(
                 "max_frost_depth_m",
-                r.max_frost_depth_m,
+                d,
                 "m",
                 "frost depth",
                 Worse::Higher,
-            ),
-            DecisiveFigure::new(
-                "design_freezing_index_c_days",
-                r.design_freezing_index_c_days,
-                "°C·d",
-                "design surface freezing index",
+            ));
+        }
+        if let Some(p) = &r.permafrost {
+            out.push(
+                DecisiveFigure::new(
+                    "permafrost.active_layer_depth_m",
+                    p.active_layer_depth_m,
+                    "m",
+                    "active layer (seasonal thaw)",
+                    Worse::Higher,
+                )
+                .checked_by("frost.permafrost"),
+            );
+            out.push(DecisiveFigure::new(
+                "permafrost.permafrost_table_depth_m",
+                p.permafrost_table_depth_m,
+                "m",
+                "permafrost table",
                 Worse::Higher,
-            ),
-        ];
+            ));
+            out.push(DecisiveFigure::new(
+                "permafrost.mean_annual_ground_temperature_c",
+                p.mean_annual_ground_temperature_c,
+                "°C",
+                "mean annual ground temperature",
+                Worse::Higher,
+            ));
+        }
+        out.push(DecisiveFigure::new(
+            "design_freezing_index_c_days",
+            r.design_freezing_index_c_days,
+            "°C·d",
+            "design surface freezing index",
+            Worse::Higher,
+        ));
         if let Some(c) = r.required_cover_m {
             out.push(
                 DecisiveFigure::new("required_cover_m", c, "m", "cover needed", Worse::Higher)
@@ -129,23 +156,32 @@ impl Kind for FrostKind {
 /// water, and the insulation board.
 fn checks(r: &FrostResult) -> Vec<Check> {
     let mut out = Vec::new();
-    if let (Some(reaches), Some(crown)) = (r.frost_reaches_pipe, r.pipe_crown_depth_m) {
+    if let Some(p) = &r.permafrost {
+        out.push(Check::new(
+            "frost.permafrost",
+            false,
+            Some(p.active_layer_depth_m),
+            None,
+            "m",
+            format!(
+                "the ground is perennially frozen below {:.2} m (permafrost table; mean annual ground temperature {:.1} °C): a frost-depth cover rule does not apply, a main needs insulation or heating to local practice",
+                p.permafrost_table_depth_m, p.mean_annual_ground_temperature_c
+            ),
+        ));
+    }
+    if let (Some(reaches), Some(crown), Some(depth)) =
+        (r.frost_reaches_pipe, r.pipe_crown_depth_m, r.max_frost_depth_m)
+    {
         out.push(Check::new(
             "frost.at_pipe",
             !reaches,
-            Some(r.max_frost_depth_m),
+            Some(depth),
             Some(crown),
             "m",
             if reaches {
-                format!(
-                    "frost reaches {:.2} m, below the crown at {crown:.2} m",
-                    r.max_frost_depth_m
-                )
+                format!("frost reaches {depth:.2} m, below the crown at {crown:.2} m")
             } else {
-                format!(
-                    "the crown at {crown:.2} m lies below the frost depth of {:.2} m",
-                    r.max_frost_depth_m
-                )
+                format!("the crown at {crown:.2} m lies below the frost depth of {depth:.2} m")
             },
         ));
         if let Some(required) = r.required_cover_m {

@@ -149,6 +149,9 @@ fn scaled(t_c: f64, scale: f64) -> f64 {
 #[derive(Clone, Debug)]
 pub struct PipeRun {
     pub cells: usize,
+    /// Depth of the section's bottom, m: a frost depth there is the model's boundary, not the
+    /// ground's.
+    pub domain_depth_m: f64,
     /// Deepest free-field frost (0 °C isotherm at the section edge) in the design season, m.
     pub free_field_depth_m: f64,
     /// Days from the season start of that deepest frost.
@@ -241,13 +244,8 @@ pub fn winter_run(
     let t0 = winter.season_start_s;
     let design_start = t0 + SPIN_UP_YEARS as f64 * YEAR_S;
     let pipe_depth = pipe.map_or(1.0, |p| p.depth_m);
-    let mut model = base_model(
-        site,
-        winter,
-        2.0 * res.half_width_m,
-        res.depth_m.max(3.0 * pipe_depth),
-        design_start,
-    )?;
+    let domain_depth_m = res.depth_m.max(3.0 * pipe_depth);
+    let mut model = base_model(site, winter, 2.0 * res.half_width_m, domain_depth_m, design_start)?;
     if let Some(pipe) = pipe {
         let mut p = engine_pipe(pipe, false)?;
         p.x_m = 0.0;
@@ -271,6 +269,7 @@ pub fn winter_run(
     let min = |v: &[f64]| v.iter().copied().fold(f64::INFINITY, f64::min);
     Ok(PipeRun {
         cells: run.cells,
+        domain_depth_m,
         free_field_depth_m: depth_max,
         deepest_day: (t_max - design_start) / DAY_S,
         days: run.times_s.iter().map(|t| (t - design_start) / DAY_S).collect(),

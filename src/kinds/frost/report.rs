@@ -20,10 +20,17 @@ pub fn figures(s: &StudyResult, f: &FrostResult) -> Result<Vec<Figure>, String> 
         style: SeriesStyle::Line,
         colour: 0,
     };
-    let mut hlines = vec![(
-        f.max_frost_depth_m,
-        format!("frost depth {:.2} m", f.max_frost_depth_m),
-    )];
+    let mut hlines: Vec<(f64, String)> = f
+        .max_frost_depth_m
+        .map(|d| (d, format!("frost depth {d:.2} m")))
+        .into_iter()
+        .collect();
+    if let Some(p) = &f.permafrost {
+        hlines.push((
+            p.permafrost_table_depth_m,
+            format!("permafrost table {:.2} m", p.permafrost_table_depth_m),
+        ));
+    }
     if let Some(c) = f.pipe_crown_depth_m {
         hlines.push((c, format!("pipe crown {c:.2} m")));
     }
@@ -177,9 +184,23 @@ pub fn section(f: &FrostResult) -> Markup {
                     }
                 },
             ))
-            tr {
-                td { b { "Governing frost depth" } }
-                td.n { b { (format!("{:.2} m", f.max_frost_depth_m)) } }
+            @if let Some(p) = &f.permafrost {
+                tr {
+                    td { b { "Permafrost: active layer; permafrost table; mean annual ground temperature (no frost depth applies)" } }
+                    td.n { b { (format!("{:.2} m; {:.2} m; {:.1} °C", p.active_layer_depth_m, p.permafrost_table_depth_m, p.mean_annual_ground_temperature_c)) } }
+                }
+            } @else {
+                tr {
+                    td { b { "Governing frost depth" } }
+                    td.n {
+                        b {
+                            @match f.max_frost_depth_m {
+                                Some(d) => (format!("{d:.2} m")),
+                                None => "none found within the models' depth",
+                            }
+                        }
+                    }
+                }
             }
             @if let Some(b) = &f.berggren {
                 (row(

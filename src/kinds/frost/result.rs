@@ -15,8 +15,13 @@ pub struct FrostResult {
     pub design_index_basis: String,
     pub frost_depth_m: FrostDepths,
     /// The governing frost depth: the deeper of modified Berggren and the numerical free-field
-    /// depth (Stefan is an upper bound, shown only).
-    pub max_frost_depth_m: f64,
+    /// depth (Stefan is an upper bound, shown only); null over permafrost or when the frost
+    /// reaches the bottom of every model.
+    pub max_frost_depth_m: Option<f64>,
+    /// Perennially frozen ground under the site: then no frost depth is given (a frost-depth
+    /// cover rule does not apply) and these figures stand instead.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub permafrost: Option<crate::results::PermafrostFigures>,
     /// Mean annual surface temperature and length of the freezing season used by Berggren.
     pub mean_annual_surface_c: f64,
     pub freezing_season_days: f64,

@@ -116,7 +116,18 @@ pub fn run(
     let analytic_depth = berggren
         .map(|b| b.depth_m)
         .or(stefan)
-        .unwrap_or_else(|| ground.max_frost_depth_m(crate::ground::profile::DEFAULT_PROFILE_DEPTH_M));
+        .or_else(|| ground.max_frost_depth_m(crate::ground::profile::DEFAULT_PROFILE_DEPTH_M));
+    let permafrost = ground.permafrost(crate::ground::profile::DEFAULT_PROFILE_DEPTH_M);
+    if let Some(p) = &permafrost {
+        warnings.push(warn(
+            Level::Danger,
+            "frost.permafrost",
+            format!(
+                "the ground is perennially frozen: below an active layer of {:.2} m the permafrost table lies at {:.2} m and the mean annual ground temperature is {:.1} °C; a frost-depth cover rule does not apply — a main here needs insulation or heat tracing (or an above-ground or utilidor route) designed to local practice for permafrost",
+                p.active_layer_m, p.table_m, p.mean_annual_c
+            ),
+        ));
+    }
     // The engine's winter needs a winter: a surface year scaled to the design index.
     let winter = if method == Method::Analytic && f.board.is_none() {
         None
@@ -150,11 +161,31 @@ pub fn run(
             ),
         ));
     }
-    let numerical_depth = run.as_ref().map(|(r, _)| r.free_field_depth_m);
-    let governing = match (analytic, numerical_depth) {
-        (true, Some(n)) => berggren.map_or(n, |b| b.depth_m.max(n)),
-        (false, Some(n)) => n,
-        _ => analytic_depth,
+    // Frost that reaches the bottom of the engine's section is the section's boundary, not a
+    // depth of the ground: the section is too shallow to show it.
+    let numerical_depth = run.as_ref().and_then(|(r, _)| {
+        if r.free_field_depth_m >= r.domain_depth_m - 0.05 * r.domain_depth_m {
+            warnings.push(warn(
+                Level::Caution,
+                "frost.domain_too_shallow",
+                format!(
+                    "the engine's frost reaches the bottom of its {:.1} m deep section; the section is too shallow to give a frost depth",
+                    r.domain_depth_m
+                ),
+            ));
+            None
+        } else {
+            Some(r.free_field_depth_m)
+        }
+    });
+    let governing = if permafrost.is_some() {
+        None
+    } else {
+        match (analytic, numerical_depth) {
+            (true, Some(n)) => Some(berggren.map_or(n, |b| b.depth_m.max(n))),
+            (false, Some(n)) => Some(n),
+            _ => analytic_depth,
+        }
     };
 
     let mut result = FrostResult {
@@ -167,6 +198,9 @@ pub fn run(
             numerical: numerical_depth,
         },
         max_frost_depth_m: governing,
+        permafrost: permafrost
+            .as_ref()
+            .map(crate::results::PermafrostFigures::from_profile),
         mean_annual_surface_c: mean_annual,
         freezing_season_days: season_days,
         berggren: berggren.filter(|_| analytic).map(|b| BerggrenFigures {
@@ -508,21 +542,25 @@ fn pipe_checks(
     warnings: &mut Vec<Warning>,
 ) -> Result<(), String> {
     let crown = pipe.cover_m();
-    let reaches = r.max_frost_depth_m >= crown;
     r.pipe_crown_depth_m = Some(crown);
-    r.frost_reaches_pipe = Some(reaches);
-    let cover = fp::required_cover(r.max_frost_depth_m, pipe.outer_diameter_m, f.margin_m)?;
-    r.required_cover_m = Some(cover.cover_m);
-    if reaches {
-        warnings.push(Warning {
-            study: Some(id.to_string()),
-            level: Level::Danger,
-            code: "frost.at_pipe".into(),
-            message: format!(
-                "frost reaches {:.2} m in the design winter, below the crown of `{}` at {:.2} m: the water can freeze; give it at least {:.2} m of cover, insulate it, or keep the water moving",
-                r.max_frost_depth_m, pipe.id, crown, cover.cover_m
-            ),
-        });
+    // Over permafrost (or with no frost depth) the crown is not held to a frost depth: the
+    // permafrost danger says what applies instead.
+    if let Some(depth) = r.max_frost_depth_m {
+        let reaches = depth >= crown;
+        r.frost_reaches_pipe = Some(reaches);
+        let cover = fp::required_cover(depth, pipe.outer_diameter_m, f.margin_m)?;
+        r.required_cover_m = Some(cover.cover_m);
+        if reaches {
+            warnings.push(Warning {
+                study: Some(id.to_string()),
+                level: Level::Danger,
+                code: "frost.at_pipe".into(),
+                message: format!(
+                    "frost reaches {depth:.2} m in the design winter, below the crown of `{}` at {:.2} m: the water can freeze; give it at least {:.2} m of cover, insulate it, or keep the water moving",
+                    pipe.id, crown, cover.cover_m
+                ),
+            });
+        }
     }
     // Coldest pipe wall: the undisturbed ground at the pipe's depth, day by day, with the water
     // (or the heat rate) through the wall and ground resistances in series.

@@ -79,7 +79,7 @@ impl FreezingSeason {
         check_finite("the freezing point (°C)", self.freezing_point_c)?;
         if self.mean_annual_c < self.freezing_point_c {
             return Err(format!(
-                "the mean annual temperature {} °C is below the freezing point; the modified Berggren formula is for seasonal frost in ground that is unfrozen on average",
+                "the mean annual temperature {:.2} °C is below the freezing point; the modified Berggren formula is for seasonal frost in ground that is unfrozen on average",
                 self.mean_annual_c
             ));
         }
