@@ -79,6 +79,11 @@ impl<D: Dim> Q<D> {
         }
     }
 
+    /// True when the site file gives a bare number (in the key's plain unit), no unit.
+    pub fn is_plain_number(&self) -> bool {
+        matches!(self.raw, RawQuantity::Number(_))
+    }
+
     pub fn dimension(&self) -> Dimension {
         D::DIM
     }

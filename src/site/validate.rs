@@ -5,6 +5,7 @@ use super::diagnostic::{Collector, KeyPath};
 use super::doc::*;
 use super::quantity::{Dim, Q};
 use super::series_file;
+use super::units::{Dimension, format_quantity};
 use crate::materials::soils;
 use crate::model::*;
 use std::collections::HashMap;
@@ -79,23 +80,156 @@ impl Validator<'_, '_> {
         }
     }
 
-    /// Warns when a value lies outside its usual engineering range.
+    /// Holds a value (model units) to its key's plausible range `(lo, hi)`, also in model
+    /// units. Inside: nothing. Outside, but inside after one of the slips listed for its
+    /// dimension ([`slips`]: MJ read as J, hours or days read as seconds, l/s read as m³/s, kW
+    /// or MWh read as W or kWh, kelvin or °F read as °C, per cent read as a fraction, mm read as
+    /// m): an error naming the unit the user probably meant. Outside by more than a factor of
+    /// 100 (or 100 K): an error. Otherwise a warning (a caution in the results).
     pub fn plausible(
         &mut self,
         value: Option<f64>,
         (lo, hi): (f64, f64),
         path: &KeyPath,
         what: &str,
-        unit: &str,
+        dim: Dimension,
     ) {
-        if let Some(v) = value
-            && !(lo..=hi).contains(&v)
-        {
+        let Some(v) = value else { return };
+        if (lo..=hi).contains(&v) {
+            return;
+        }
+        // The value as the site file's plain number would give it (a fraction as a fraction).
+        let written = match dim {
+            Dimension::Fraction => round_sig(v),
+            _ => format_quantity(v, dim),
+        };
+        let number = written.split(' ').next().unwrap_or("").to_string();
+        let range = format!("{}–{}", format_quantity(lo, dim), format_quantity(hi, dim));
+        if let Some(meant) = slips(dim).iter().find(|s| (lo..=hi).contains(&(s.apply)(v))) {
+            self.out.error(
+                path,
+                format!(
+                    "{written} is not {what} (usually {range}); did you mean {number} {}?",
+                    meant.unit
+                ),
+            );
+            return;
+        }
+        let far = match dim {
+            Dimension::Temperature => v < lo - 100.0 || v > hi + 100.0,
+            _ => v.abs() > 100.0 * hi.abs().max(lo.abs()) || (lo > 0.0 && v.abs() < lo / 100.0),
+        };
+        if far {
+            self.out.error(
+                path,
+                format!(
+                    "{written} is far outside the range of {what} ({range}); check the value and its unit"
+                ),
+            );
+        } else {
             self.out.warning(
                 path,
-                format!("{what} of {} {unit} lies outside the usual range {lo}–{hi} {unit}; check the value and its unit", round_sig(v)),
+                format!(
+                    "{written} lies outside the usual range of {what} ({range}); check the value and its unit"
+                ),
             );
         }
+    }
+}
+
+/// A likely slip of unit: reading a number in another unit of the same dimension gives
+/// `apply(value)` in model units.
+pub struct Slip {
+    pub unit: &'static str,
+    pub apply: fn(f64) -> f64,
+}
+
+/// The short list of slips checked for each dimension: the unit a number is easily meant in
+/// when the plain unit is another (common practice, no source: the slips seen in use).
+pub fn slips(dim: Dimension) -> &'static [Slip] {
+    use Dimension as D;
+    const HOUR: f64 = crate::numerics::time::HOUR_S;
+    const DAY: f64 = crate::numerics::time::DAY_S;
+    match dim {
+        D::VolumetricHeatCapacity => &[
+            Slip {
+                unit: "MJ/(m3 K)",
+                apply: |v| v * 1e6,
+            },
+            Slip {
+                unit: "kJ/(m3 K)",
+                apply: |v| v * 1e3,
+            },
+        ],
+        D::SpecificHeatCapacity => &[Slip {
+            unit: "kJ/(kg K)",
+            apply: |v| v * 1e3,
+        }],
+        D::Time => &[
+            Slip {
+                unit: "h",
+                apply: |v| v * HOUR,
+            },
+            Slip {
+                unit: "d",
+                apply: |v| v * DAY,
+            },
+        ],
+        D::VolumeFlow => &[
+            Slip {
+                unit: "l/s",
+                apply: |v| v * 1e-3,
+            },
+            Slip {
+                unit: "l/min",
+                apply: |v| v * 1e-3 / 60.0,
+            },
+            Slip {
+                unit: "m3/h",
+                apply: |v| v / HOUR,
+            },
+        ],
+        D::Power => &[Slip {
+            unit: "kW",
+            apply: |v| v * 1e3,
+        }],
+        D::LinearHeatRate => &[Slip {
+            unit: "kW/m",
+            apply: |v| v * 1e3,
+        }],
+        D::Energy => &[Slip {
+            unit: "MWh",
+            apply: |v| v * 1e3,
+        }],
+        D::Temperature => &[
+            Slip {
+                unit: "K",
+                apply: |v| v - 273.15,
+            },
+            Slip {
+                unit: "°F",
+                apply: |v| (v - 32.0) * 5.0 / 9.0,
+            },
+        ],
+        D::TemperatureDifference => &[Slip {
+            unit: "°F",
+            apply: |v| v * 5.0 / 9.0,
+        }],
+        D::Fraction => &[Slip {
+            unit: "%",
+            apply: |v| v * 0.01,
+        }],
+        D::Length => &[
+            Slip {
+                unit: "mm",
+                apply: |v| v * 1e-3,
+            },
+            Slip {
+                unit: "cm",
+                apply: |v| v * 1e-2,
+            },
+        ],
+        _ => &[],
     }
 }
 
@@ -131,7 +265,7 @@ fn n_factors(
         let p = path.key(key);
         let n = v.positive(Some(n.unwrap_or(1.0)), &p, "an n-factor");
         // TM 5-852-6 (1988) tables give n-factors between about 0.3 and 2.0 (from memory).
-        v.plausible(n, (0.2, 2.5), &p, "an n-factor", "");
+        v.plausible(n, (0.2, 2.5), &p, "an n-factor", Dimension::Dimensionless);
         n
     };
     let freezing = one(freezing, "n_factor_freezing");
@@ -156,7 +290,7 @@ fn climate(doc: &ClimateDoc, path: &KeyPath, v: &mut Validator) -> Option<Climat
                 (-20.0, 35.0),
                 &path.key("mean"),
                 "a mean surface temperature",
-                "°C",
+                Dimension::Temperature,
             );
             let amp = v.q(amplitude, &path.key("amplitude"));
             let amp = match amp {
@@ -166,7 +300,13 @@ fn climate(doc: &ClimateDoc, path: &KeyPath, v: &mut Validator) -> Option<Climat
                 }
                 a => a,
             };
-            v.plausible(amp, (0.0, 30.0), &path.key("amplitude"), "an amplitude", "K");
+            v.plausible(
+                amp,
+                (0.0, 30.0),
+                &path.key("amplitude"),
+                "an amplitude",
+                Dimension::TemperatureDifference,
+            );
             let day = v.within(
                 Some(*coldest_day),
                 (1.0, 366.0),
@@ -198,7 +338,13 @@ fn climate(doc: &ClimateDoc, path: &KeyPath, v: &mut Validator) -> Option<Climat
             for (i, q) in air.iter().enumerate() {
                 let p = path.key("air").index(i);
                 let t = v.q(q, &p);
-                v.plausible(t, surface_range, &p, "a monthly mean air temperature", "°C");
+                v.plausible(
+                    t,
+                    surface_range,
+                    &p,
+                    "a monthly mean air temperature",
+                    Dimension::Temperature,
+                );
                 match t {
                     Some(t) if i < 12 => values[i] = t,
                     _ => ok = false,
@@ -262,7 +408,7 @@ fn climate(doc: &ClimateDoc, path: &KeyPath, v: &mut Validator) -> Option<Climat
                 surface_range,
                 &path.key("temperature"),
                 "a surface temperature",
-                "°C",
+                Dimension::Temperature,
             );
             Some(Climate::Constant { temperature_c: t? })
         }
@@ -276,7 +422,7 @@ fn ground(doc: &GroundDoc, path: &KeyPath, v: &mut Validator) -> Option<Ground> 
         (-30.0, 40.0),
         &path.key("initial_temperature"),
         "an initial ground temperature",
-        "°C",
+        Dimension::Temperature,
     );
     let flux = v.opt_q(&doc.geothermal_flux, &path.key("geothermal_flux"));
     // Continental heat flow is mostly 0.04–0.12 W/m2 (Pollack, Hurter & Johnson 1993, from memory).
@@ -285,7 +431,7 @@ fn ground(doc: &GroundDoc, path: &KeyPath, v: &mut Validator) -> Option<Ground> 
         (0.0, 0.2),
         &path.key("geothermal_flux"),
         "a geothermal heat flux",
-        "W/m2",
+        Dimension::HeatFlux,
     );
     if doc.layers.is_empty() {
         v.out.error(
@@ -366,13 +512,23 @@ fn layer(doc: &LayerDoc, last: bool, path: &KeyPath, v: &mut Validator) -> Optio
     };
     let w = match &doc.water_content {
         Some(q) => {
-            let w = v.q(q, &path.key("water_content"));
-            v.within(
-                w,
-                (0.0, 1.0),
-                &path.key("water_content"),
-                "the volumetric water content",
-            )
+            let p = path.key("water_content");
+            let w = v.q(q, &p);
+            // Soils hold up to about 0.6 of their volume in water (peat more): common practice,
+            // no source. A number past 1 is a slip of per cent, or an error.
+            match w {
+                Some(x) if x > 1.0 && q.is_plain_number() => {
+                    v.plausible(
+                        w,
+                        (0.0, 0.6),
+                        &p,
+                        "a volumetric water content",
+                        Dimension::Fraction,
+                    );
+                    None
+                }
+                _ => v.within(w, (0.0, 1.0), &p, "the volumetric water content"),
+            }
         }
         None => Some(preset.map(|p| p.water_content).unwrap_or(0.0)),
     };
@@ -387,28 +543,28 @@ fn layer(doc: &LayerDoc, last: bool, path: &KeyPath, v: &mut Validator) -> Optio
         (0.2, 6.0),
         &path.key("conductivity"),
         "a soil conductivity",
-        "W/(m K)",
+        Dimension::Conductivity,
     );
     v.plausible(
         k_f,
         (0.2, 6.0),
         &path.key("frozen_conductivity"),
         "a frozen soil conductivity",
-        "W/(m K)",
+        Dimension::Conductivity,
     );
     v.plausible(
-        c.map(|c| c / 1e6),
-        (0.5, 4.5),
+        c,
+        (0.5e6, 4.5e6),
         &path.key("heat_capacity"),
-        "a volumetric heat capacity",
-        "MJ/(m3 K)",
+        "a soil's volumetric heat capacity",
+        Dimension::VolumetricHeatCapacity,
     );
     v.plausible(
-        c_f.map(|c| c / 1e6),
-        (0.5, 4.5),
+        c_f,
+        (0.5e6, 4.5e6),
         &path.key("frozen_heat_capacity"),
-        "a frozen volumetric heat capacity",
-        "MJ/(m3 K)",
+        "a frozen soil's volumetric heat capacity",
+        Dimension::VolumetricHeatCapacity,
     );
     let w = w?;
     Some(SoilLayer {
@@ -576,13 +732,19 @@ fn pipe(doc: &PipeDoc, path: &KeyPath, v: &mut Validator) -> Option<Pipe> {
     let depth = centre_depth(&doc.depth, &doc.cover, diameter, path, v, "the pipe");
     // Buried pipes sit within about 0.3–6 m of the surface and measure up to about 2 m across
     // (common practice, no source).
-    v.plausible(depth, (0.2, 10.0), &path.key("depth"), "a pipe depth", "m");
+    v.plausible(
+        depth,
+        (0.2, 10.0),
+        &path.key("depth"),
+        "a pipe depth",
+        Dimension::Length,
+    );
     v.plausible(
         diameter,
         (0.01, 2.0),
         &path.key("outer_diameter"),
         "a pipe diameter",
-        "m",
+        Dimension::Length,
     );
     if let (Some(z), Some(d)) = (depth, diameter)
         && z - d / 2.0 <= 0.0
@@ -664,7 +826,7 @@ pub fn layer_conductivity(
                 (0.01, 0.1),
                 &path.key("lambda_50"),
                 "an insulation λ50",
-                "W/(m K)",
+                Dimension::Conductivity,
             );
             let slope = v.within(
                 Some(d.slope.unwrap_or(0.0)),
@@ -713,7 +875,13 @@ pub fn fluid_temperature(t: &OneOrMonthly, path: &KeyPath, v: &mut Validator) ->
     for (m, value) in values.into_iter().enumerate() {
         let t = value?;
         if !(-50.0..=200.0).contains(&t) {
-            v.plausible(Some(t), (-50.0, 200.0), path, "a fluid temperature", "°C");
+            v.plausible(
+                Some(t),
+                (-50.0, 200.0),
+                path,
+                "a fluid temperature",
+                Dimension::Temperature,
+            );
         }
         monthly_c[m] = t;
     }

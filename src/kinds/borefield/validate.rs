@@ -15,6 +15,7 @@ use crate::physics::borehole::DoubleUPairing;
 use crate::physics::gfunction::WallCondition;
 use crate::site::diagnostic::KeyPath;
 use crate::site::quantity::*;
+use crate::site::units::Dimension;
 use crate::site::validate::Validator;
 
 /// The methods this kind offers: g-functions and superposition (analytic).
@@ -48,7 +49,7 @@ pub fn validate(doc: &BorefieldDoc, path: &KeyPath, v: &mut Validator) -> Option
         (10.0, 500.0),
         &bp.key("active_length"),
         "an active length",
-        "m",
+        Dimension::Length,
     );
     let top = match &doc.borehole.top_depth {
         None => Some(0.0),
@@ -67,18 +68,18 @@ pub fn validate(doc: &BorefieldDoc, path: &KeyPath, v: &mut Validator) -> Option
         (0.075, 0.3),
         &bp.key("diameter"),
         "a borehole diameter",
-        "m",
+        Dimension::Length,
     );
     let exchanger = heat_exchanger(&doc.heat_exchanger, diameter, &path.key("heat_exchanger"), v);
     let fluid = fluid(&doc.fluid, &path.key("fluid"), v);
     let fp = path.key("fluid").key("flow_per_borehole");
     let flow = v.positive_q(&doc.fluid.flow_per_borehole, &fp, "the flow per borehole");
     v.plausible(
-        flow.map(|f| f * 1000.0),
-        (0.05, 3.0),
+        flow,
+        (0.05e-3, 3e-3),
         &fp,
         "a flow per borehole",
-        "l/s",
+        Dimension::VolumeFlow,
     );
     let loads = loads(&doc.loads, &path.key("loads"), v);
     let lp = path.key("limits");
@@ -147,7 +148,7 @@ pub fn validate(doc: &BorefieldDoc, path: &KeyPath, v: &mut Validator) -> Option
                 (0.3, 7.0),
                 &path.key("ground_conductivity"),
                 "a ground conductivity",
-                "W/(m K)",
+                Dimension::Conductivity,
             );
             k.map(Some)
         }
@@ -207,7 +208,13 @@ fn layout(doc: &LayoutDoc, path: &KeyPath, v: &mut Validator) -> Option<(Vec<(f6
         (Some(r), None) => {
             let p = path.key("rectangle");
             let spacing = v.positive_q(&r.spacing, &p.key("spacing"), "the borehole spacing");
-            v.plausible(spacing, (3.0, 20.0), &p.key("spacing"), "a borehole spacing", "m");
+            v.plausible(
+                spacing,
+                (3.0, 20.0),
+                &p.key("spacing"),
+                "a borehole spacing",
+                Dimension::Length,
+            );
             for (key, n) in [("rows", r.rows), ("columns", r.columns)] {
                 if !(1..=50).contains(&n) {
                     v.out
@@ -320,7 +327,7 @@ fn heat_exchanger(
             (0.5, 3.5),
             &path.key("grout_conductivity"),
             "a grout conductivity",
-            "W/(m K)",
+            Dimension::Conductivity,
         );
         k
     };
@@ -333,7 +340,7 @@ fn heat_exchanger(
                 (0.03, 0.5),
                 &path.key("borehole_resistance"),
                 "a borehole resistance",
-                "m K/W",
+                Dimension::LinearResistance,
             );
             r.map(Some)
         }
@@ -545,6 +552,56 @@ fn peak_duration(q: &Option<&Q<Time>>, path: &KeyPath, v: &mut Validator) -> Opt
     }
 }
 
+/// A monthly peak is the month's highest load: one below the month's mean power is an error, and
+/// one more than [`PEAK_TO_MEAN_LIMIT`] times it is a caution — or an error naming MWh when
+/// the energies read as MWh would explain it (a peak in kW against energies meant as MWh).
+fn peaks_against_means(
+    energy_j: &[f64; 12],
+    peak_w: &[f64; 12],
+    energy_path: &KeyPath,
+    peak_path: &KeyPath,
+    v: &mut Validator,
+) {
+    for m in 0..12 {
+        let (e, p) = (energy_j[m], peak_w[m]);
+        if p <= 0.0 || e <= 0.0 {
+            continue;
+        }
+        let mean = e / MONTH_S;
+        let kw = |w: f64| crate::site::validate::round_sig((w / 1e3 * 1e3).round() / 1e3);
+        if p < mean * (1.0 - 1e-9) {
+            v.out.error(
+                &peak_path.index(m),
+                format!(
+                    "the peak, {} kW, is below the month's mean power of {} kW; a peak is the month's highest load (check the units of the peak and of the month's energy)",
+                    kw(p),
+                    kw(mean)
+                ),
+            );
+        } else if p > PEAK_TO_MEAN_LIMIT * mean {
+            let ratio = (p / mean).round();
+            if p <= PEAK_TO_MEAN_LIMIT * mean * 1e3 && p >= mean * 1e3 {
+                v.out.error(
+                    &energy_path.index(m),
+                    format!(
+                        "the month's peak is {ratio} times its mean power; did you mean the energy in MWh (a plain number is kWh)?"
+                    ),
+                );
+            } else {
+                v.out.warning(
+                    &peak_path.index(m),
+                    format!("the peak is {ratio} times the month's mean power, far more than a heat pump's peaks usually are; check the peak and the energy"),
+                );
+            }
+        }
+    }
+}
+
+/// A monthly peak more than this many times the month's mean power is unusual (a month of 730 h
+/// with a 6-h peak at full load and the rest idle gives about 120; heat-pump loads rarely reach
+/// 20): common practice, no source.
+const PEAK_TO_MEAN_LIMIT: f64 = 20.0;
+
 fn loads(doc: &LoadsDoc, path: &KeyPath, v: &mut Validator) -> Option<GroundLoads> {
     let given = [
         doc.monthly.is_some(),
@@ -581,6 +638,12 @@ fn loads(doc: &LoadsDoc, path: &KeyPath, v: &mut Validator) -> Option<GroundLoad
             "peak to the ground",
         );
         let duration = peak_duration(&peak.and_then(|k| k.duration.as_ref()), &pk.key("duration"), v);
+        if let (Some(e), Some(pe)) = (extracted, pe) {
+            peaks_against_means(&e, &pe, &p.key("from_ground"), &pk.key("from_ground"), v);
+        }
+        if let (Some(e), Some(pi)) = (injected, pi) {
+            peaks_against_means(&e, &pi, &p.key("to_ground"), &pk.key("to_ground"), v);
+        }
         return Some(GroundLoads::Monthly {
             from_ground_j: extracted?,
             to_ground_j: injected?,
@@ -610,6 +673,12 @@ fn loads(doc: &LoadsDoc, path: &KeyPath, v: &mut Validator) -> Option<GroundLoad
         let cop = v.within(Some(b.cop), (1.0, 20.0), &p.key("cop"), "the COP");
         let eer = v.within(Some(b.eer), (1.0, 40.0), &p.key("eer"), "the EER");
         let duration = peak_duration(&peak.and_then(|k| k.duration.as_ref()), &pk.key("duration"), v);
+        if let (Some(e), Some(ph)) = (heating, ph) {
+            peaks_against_means(&e, &ph, &p.key("heating"), &pk.key("heating"), v);
+        }
+        if let (Some(e), Some(pc)) = (cooling, pc) {
+            peaks_against_means(&e, &pc, &p.key("cooling"), &pk.key("cooling"), v);
+        }
         return Some(GroundLoads::Building {
             heating_j: heating?,
             cooling_j: cooling?,

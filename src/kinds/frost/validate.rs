@@ -7,7 +7,9 @@ use super::Frost;
 use super::FrostBleed;
 use super::FrostBoard;
 use crate::model::{Method, PipeDrive};
+use crate::numerics::time::DAY_S;
 use crate::site::diagnostic::KeyPath;
+use crate::site::units::Dimension;
 use crate::site::validate::{self, Validator};
 
 /// The methods this kind offers: the analytic formulas, the engine's winter run, or both.
@@ -87,13 +89,20 @@ pub fn validate(doc: &FrostDoc, path: &KeyPath, v: &mut Validator) -> Option<Fro
     };
     let stagnant = match &doc.stagnant {
         None => Some(None),
-        Some(s) => v
-            .positive_q(
-                &s.duration,
-                &path.key("stagnant").key("duration"),
-                "the stagnant period",
-            )
-            .map(Some),
+        Some(s) => {
+            let p = path.key("stagnant").key("duration");
+            let d = v.positive_q(&s.duration, &p, "the stagnant period");
+            // Water stands in a main from an hour (a repair) to a few weeks (an empty house):
+            // common practice, no source.
+            v.plausible(
+                d,
+                (1800.0, 30.0 * DAY_S),
+                &p,
+                "a period without flow",
+                Dimension::Time,
+            );
+            d.map(Some)
+        }
     };
     let season_start = match &doc.season_start {
         None => Some(None),

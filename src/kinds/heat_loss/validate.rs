@@ -11,6 +11,7 @@ use super::TwinCasing;
 use crate::model::{Pipe, WallLayer};
 use crate::site::diagnostic::KeyPath;
 use crate::site::doc::PipeDoc;
+use crate::site::units::Dimension;
 use crate::site::validate::{self, Validator};
 
 /// Surface resistance this kind uses unless the study gives one: EN 13941-1 practice
@@ -193,13 +194,19 @@ fn twin(doc: &TwinDoc, path: &KeyPath, v: &mut Validator) -> Option<(Vec<Pipe>, 
         v,
         "the twin pipe's casing",
     );
-    v.plausible(depth, (0.2, 10.0), &path.key("depth"), "a pipe depth", "m");
+    v.plausible(
+        depth,
+        (0.2, 10.0),
+        &path.key("depth"),
+        "a pipe depth",
+        Dimension::Length,
+    );
     v.plausible(
         diameter,
         (0.05, 2.0),
         &path.key("outer_diameter"),
         "a casing diameter",
-        "m",
+        Dimension::Length,
     );
     let casing_t = v.positive_q(
         &doc.casing.thickness,
