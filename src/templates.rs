@@ -37,6 +37,23 @@ pub fn materials_table() -> String {
             p.source
         );
     }
+    s.push_str("\nSurface presets (a frost study's `surface:`): n-factors, surface / air index\n\n");
+    let _ = writeln!(
+        s,
+        "{:<20} {:>9} {:>9}  surface; source",
+        "name", "freezing", "thawing"
+    );
+    for p in crate::physics::frost::n_factor_presets() {
+        let _ = writeln!(
+            s,
+            "{:<20} {:>9.2} {:>9}  {}; {}",
+            p.key,
+            p.freezing,
+            p.thawing.map_or("—".to_string(), |t| format!("{t:.2}")),
+            p.surface,
+            p.source
+        );
+    }
     s.push_str("\nAntifreeze mixtures (concentration as a mass fraction)\n\n");
     let _ = writeln!(
         s,

@@ -207,3 +207,65 @@ fn strict_exits_three_on_danger_and_still_writes_the_bundle() {
     assert!(String::from_utf8_lossy(&o.stderr).contains("DANGER"));
     assert!(out.join("report.html").is_file());
 }
+
+/// Every preset name the schema's descriptions offer next to `burrow materials` (soils, surfaces,
+/// mixtures) is accepted by the site check, every name `burrow materials` lists is offered, and
+/// the frost study's `surface` takes each of its listed values.
+#[test]
+fn every_preset_the_documentation_names_is_accepted() {
+    let schema: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(root().join("schemas/site.schema.json")).unwrap())
+            .unwrap();
+    let mut offered: Vec<String> = Vec::new();
+    fn walk(v: &serde_json::Value, out: &mut Vec<String>) {
+        match v {
+            serde_json::Value::Object(o) => {
+                if let Some(d) = o.get("description").and_then(|d| d.as_str())
+                    && d.contains("burrow materials")
+                {
+                    for (i, part) in d.split('`').enumerate() {
+                        if i % 2 == 1 && part != "burrow materials" && part != "soil" {
+                            out.push(part.to_string());
+                        }
+                    }
+                }
+                o.values().for_each(|x| walk(x, out));
+            }
+            serde_json::Value::Array(a) => a.iter().for_each(|x| walk(x, out)),
+            _ => {}
+        }
+    }
+    walk(&schema, &mut offered);
+    let table = burrow::templates::materials_table();
+    let surfaces: Vec<&str> = burrow::physics::frost::n_factor_presets()
+        .iter()
+        .map(|p| p.key)
+        .collect();
+    assert!(!offered.is_empty());
+    for name in &offered {
+        assert!(
+            table
+                .lines()
+                .any(|l| l.split_whitespace().next() == Some(name.as_str())),
+            "`{name}` is offered by the schema but not listed by `burrow materials`"
+        );
+    }
+    for s in &surfaces {
+        assert!(
+            offered.iter().any(|o| o == s),
+            "surface `{s}` is not offered by the schema"
+        );
+        let text = format!(
+            "site: {{name: t}}\nclimate: {{model: monthly-air, air: [-8, -6, -1, 5, 11, 15, 17, 16, 12, 6, 0, -5]}}\nground:\n  layers: [{{name: silt, soil: silt}}]\nstudies:\n  - id: f\n    kind: frost\n    surface: {s}\n"
+        );
+        site::load_text(&text, "t.yaml", Path::new(".")).unwrap_or_else(|e| panic!("surface {s}: {e:?}"));
+    }
+    for soil in burrow::materials::soils::presets() {
+        let text = format!(
+            "site: {{name: t}}\nclimate: {{model: annual-wave, mean: 8, amplitude: 9, coldest_day: 30}}\nground:\n  layers: [{{name: x, soil: {}}}]\n",
+            soil.name
+        );
+        site::load_text(&text, "t.yaml", Path::new("."))
+            .unwrap_or_else(|e| panic!("soil {}: {e:?}", soil.name));
+    }
+}

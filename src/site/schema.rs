@@ -42,9 +42,15 @@ fn add_units_to_descriptions(json: &mut Json) {
                 && !desc.contains("plain number")
             {
                 let sep = if desc.ends_with('.') { " " } else { ". " };
-                desc.push_str(&format!(
-                    "{sep}A plain number is in {unit}; a string may carry its own unit."
-                ));
+                if unit.is_empty() {
+                    desc.push_str(&format!(
+                        "{sep}A plain number is a fraction of 1 (0.25), or write a percentage (`25 %`)."
+                    ));
+                } else {
+                    desc.push_str(&format!(
+                        "{sep}A plain number is in {unit}; a string may carry its own unit."
+                    ));
+                }
             }
             for v in obj.values_mut() {
                 add_units_to_descriptions(v);

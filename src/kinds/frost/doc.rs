@@ -28,9 +28,10 @@ pub struct FrostDoc {
     /// climate and is turned into a surface index with the freezing n-factor.
     #[serde(default)]
     pub design_freezing_index: Option<Q<DegreeDays>>,
-    /// Surface type whose n-factors replace the climate's (see `burrow materials`): e.g. `turf`,
-    /// `snow-cleared-asphalt`.
+    // Its schema (and so its description, which lists every preset) is generated from the
+    // table of surface presets by `surface_schema`.
     #[serde(default)]
+    #[schemars(schema_with = "surface_schema")]
     pub surface: Option<String>,
     /// Return period of the design winter (Gumbel fit of the seasonal indices of a multi-year
     /// series); default: the mean of the three coldest winters (TM 5-852-6).
@@ -91,4 +92,23 @@ pub struct BoardDoc {
 pub struct StagnantDoc {
     /// How long the water stands still.
     pub duration: Q<Time>,
+}
+
+/// The schema of `surface`: the n-factor presets' keys, from the one table of them.
+fn surface_schema(_: &mut schemars::SchemaGenerator) -> schemars::Schema {
+    let presets = crate::physics::frost::n_factor_presets();
+    let names: Vec<&str> = presets.iter().map(|p| p.key).collect();
+    let description = format!(
+        "Surface type whose n-factors replace the climate's (see `burrow materials`): {}.",
+        names
+            .iter()
+            .map(|n| format!("`{n}`"))
+            .collect::<Vec<_>>()
+            .join(", ")
+    );
+    schemars::json_schema!({
+        "type": "string",
+        "enum": names,
+        "description": description,
+    })
 }
