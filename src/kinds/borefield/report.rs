@@ -158,6 +158,8 @@ pub fn figures(s: &StudyResult, b: &BorefieldResult) -> Result<Vec<Figure>, Stri
             340,
         )?,
     };
+    let plan = plan_figure(s, b)?;
+    let loads = loads_figure(s, b)?;
     let g = Figure {
         stem: format!("{}-g-function", s.id),
         caption: "The field's g-function against ln(t/t_s), t_s = H²/(9α); the borehole-wall temperature after a step of q' W/m is T₀ − q'/(2πk)·g for extraction.".into(),
@@ -182,7 +184,7 @@ pub fn figures(s: &StudyResult, b: &BorefieldResult) -> Result<Vec<Figure>, Stri
             420,
         )?,
     };
-    Ok(vec![calendar, peaks, drift, g])
+    Ok(vec![plan, loads, calendar, peaks, drift, g])
 }
 
 pub fn section(b: &BorefieldResult) -> Markup {
@@ -333,4 +335,106 @@ pub fn g_function_csv(b: &BorefieldResult) -> String {
         let _ = writeln!(s, "{:.4},{:.6}", p.ln_t_over_ts, p.g);
     }
     s
+}
+
+/// The field in plan, on equal scales (a square image over a square range).
+fn plan_figure(s: &StudyResult, b: &BorefieldResult) -> Result<Figure, String> {
+    let xs = b.positions_m.iter().map(|p| p[0]);
+    let ys = b.positions_m.iter().map(|p| p[1]);
+    let (x0, x1) = xs.fold((f64::INFINITY, f64::NEG_INFINITY), |(a, c), x| {
+        (a.min(x), c.max(x))
+    });
+    let (y0, y1) = ys.fold((f64::INFINITY, f64::NEG_INFINITY), |(a, c), y| {
+        (a.min(y), c.max(y))
+    });
+    let span = (x1 - x0).max(y1 - y0).max(1.0) * 1.2 + 4.0;
+    let (cx, cy) = ((x0 + x1) / 2.0, (y0 + y1) / 2.0);
+    Ok(Figure {
+        stem: format!("{}-plan", s.id),
+        caption: format!(
+            "The field in plan on equal scales: {} boreholes ({}).",
+            b.boreholes, b.layout
+        ),
+        rendered: render_line_plot(
+            &LinePlot {
+                title: format!("Borehole layout in plan ({} boreholes)", b.boreholes),
+                x_label: "x (m)".into(),
+                y_label: "y (m)".into(),
+                series: vec![Series {
+                    name: String::new(),
+                    points: b.positions_m.iter().map(|p| (p[0], p[1])).collect(),
+                    style: SeriesStyle::Markers,
+                    colour: FROM_GROUND,
+                }],
+                x_range: Some((cx - span / 2.0, cx + span / 2.0)),
+                y_range: Some((cy - span / 2.0, cy + span / 2.0)),
+                ..Default::default()
+            },
+            560,
+            560,
+        )?,
+    })
+}
+
+/// The year's ground loads month by month: the mean power of each month and its peak, from and
+/// to the ground, in kW.
+fn loads_figure(s: &StudyResult, b: &BorefieldResult) -> Result<Figure, String> {
+    let l = &b.monthly_loads;
+    // A model month is a twelfth of a 365-day year: 730 h.
+    let mean_kw = |mwh: f64| mwh * 1e3 / 730.0;
+    let months = |v: [f64; 12]| {
+        v.iter()
+            .enumerate()
+            .map(|(m, x)| (m as f64 + 1.0, *x))
+            .collect::<Vec<_>>()
+    };
+    let mut series = vec![
+        Series {
+            name: "mean from the ground".into(),
+            points: months(l.from_ground_mwh.map(mean_kw)),
+            style: SeriesStyle::LineMarkers,
+            colour: FROM_GROUND,
+        },
+        Series {
+            name: "mean to the ground".into(),
+            points: months(l.to_ground_mwh.map(mean_kw)),
+            style: SeriesStyle::LineMarkers,
+            colour: TO_GROUND,
+        },
+    ];
+    if l.peak_from_ground_kw.iter().any(|p| *p > 0.0) {
+        series.push(Series {
+            name: "peak from the ground".into(),
+            points: months(l.peak_from_ground_kw),
+            style: SeriesStyle::Dashed,
+            colour: FROM_GROUND,
+        });
+    }
+    if l.peak_to_ground_kw.iter().any(|p| *p > 0.0) {
+        series.push(Series {
+            name: "peak to the ground".into(),
+            points: months(l.peak_to_ground_kw),
+            style: SeriesStyle::Dashed,
+            colour: TO_GROUND,
+        });
+    }
+    Ok(Figure {
+        stem: format!("{}-loads", s.id),
+        caption: format!(
+            "The field's ground loads month by month: each month's mean power and its peak, from and to the ground ({:.1} MWh from and {:.1} MWh to the ground in a year).",
+            b.annual_loads.from_ground_mwh, b.annual_loads.to_ground_mwh
+        ),
+        rendered: render_line_plot(
+            &LinePlot {
+                title: "Ground loads of a year".into(),
+                x_label: "month (1 = January)".into(),
+                y_label: "power (kW)".into(),
+                series,
+                x_range: Some((0.5, 12.5)),
+                ..Default::default()
+            },
+            760,
+            340,
+        )?,
+    })
 }

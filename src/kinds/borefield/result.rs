@@ -7,6 +7,12 @@ use serde::Serialize;
 pub struct BorefieldResult {
     pub layout: String,
     pub boreholes: usize,
+    /// Position of each borehole (x, y), m.
+    pub positions_m: Vec<[f64; 2]>,
+    /// The ground loads of a year month by month (January first), whole field: energy from and
+    /// to the ground (gross), and the peak in each direction (0 where none is given), as the
+    /// study used them.
+    pub monthly_loads: MonthlyLoadFigures,
     /// Condition at the borehole walls of the g-function: `uniform-temperature` or
     /// `uniform-heat-flux`.
     pub wall_condition: String,
@@ -173,4 +179,13 @@ pub enum LimitProximity {
     Near,
     /// Past a limit.
     Beyond,
+}
+
+/// A year's ground loads month by month.
+#[derive(Clone, Debug, Serialize, PartialEq)]
+pub struct MonthlyLoadFigures {
+    pub from_ground_mwh: [f64; 12],
+    pub to_ground_mwh: [f64; 12],
+    pub peak_from_ground_kw: [f64; 12],
+    pub peak_to_ground_kw: [f64; 12],
 }

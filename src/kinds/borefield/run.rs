@@ -37,6 +37,7 @@ use super::GPoint;
 use super::GroundLoads;
 use super::HeatExchanger;
 use super::LimitProximity;
+use super::MonthlyLoadFigures;
 use super::validate::SIZING_RANGE_M;
 use crate::ground::profile::Undisturbed;
 use crate::kinds::Outcome;
@@ -222,6 +223,74 @@ impl Loads {
             Loads::Hourly(q) => q.iter().fold((0.0, 0.0), |(e, i), q| {
                 (e + (-q).max(0.0) * HOUR_S, i + q.max(0.0) * HOUR_S)
             }),
+        }
+    }
+}
+
+/// The ground loads month by month, gross, in MWh and kW (an hourly series summed and its
+/// extremes taken per model month; a constant load the same every month).
+pub fn monthly_loads(model: &GroundLoads) -> MonthlyLoadFigures {
+    let mwh = |j: f64| j / (1e6 * HOUR_S);
+    match model {
+        GroundLoads::Monthly {
+            from_ground_j,
+            to_ground_j,
+            peak_from_ground_w,
+            peak_to_ground_w,
+            ..
+        } => MonthlyLoadFigures {
+            from_ground_mwh: from_ground_j.map(mwh),
+            to_ground_mwh: to_ground_j.map(mwh),
+            peak_from_ground_kw: peak_from_ground_w.map(|w| w / 1e3),
+            peak_to_ground_kw: peak_to_ground_w.map(|w| w / 1e3),
+        },
+        GroundLoads::Building {
+            heating_j,
+            cooling_j,
+            peak_heating_w,
+            peak_cooling_w,
+            cop,
+            eer,
+            ..
+        } => {
+            let e: [(f64, f64); 12] =
+                std::array::from_fn(|m| ground_from_building(heating_j[m], cooling_j[m], *cop, *eer));
+            let p: [(f64, f64); 12] = std::array::from_fn(|m| {
+                ground_from_building(peak_heating_w[m], peak_cooling_w[m], *cop, *eer)
+            });
+            MonthlyLoadFigures {
+                from_ground_mwh: e.map(|x| mwh(x.0)),
+                to_ground_mwh: e.map(|x| mwh(x.1)),
+                peak_from_ground_kw: p.map(|x| x.0 / 1e3),
+                peak_to_ground_kw: p.map(|x| x.1 / 1e3),
+            }
+        }
+        GroundLoads::Hourly { from_ground_w, .. } => {
+            let month = |m: usize| &from_ground_w[m * HOURS_PER_MONTH..(m + 1) * HOURS_PER_MONTH];
+            MonthlyLoadFigures {
+                from_ground_mwh: std::array::from_fn(|m| {
+                    month(m).iter().map(|w| w.max(0.0)).sum::<f64>() / 1e6
+                }),
+                to_ground_mwh: std::array::from_fn(|m| {
+                    month(m).iter().map(|w| (-w).max(0.0)).sum::<f64>() / 1e6
+                }),
+                peak_from_ground_kw: std::array::from_fn(|m| {
+                    month(m).iter().fold(0.0_f64, |a, w| a.max(*w)) / 1e3
+                }),
+                peak_to_ground_kw: std::array::from_fn(|m| {
+                    month(m).iter().fold(0.0_f64, |a, w| a.max(-w)) / 1e3
+                }),
+            }
+        }
+        GroundLoads::Constant { from_ground_w } => {
+            let e = from_ground_w.abs() * MONTH_S;
+            let (from, to) = if *from_ground_w >= 0.0 { (e, 0.0) } else { (0.0, e) };
+            MonthlyLoadFigures {
+                from_ground_mwh: [mwh(from); 12],
+                to_ground_mwh: [mwh(to); 12],
+                peak_from_ground_kw: [from_ground_w.max(0.0) / 1e3; 12],
+                peak_to_ground_kw: [(-from_ground_w).max(0.0) / 1e3; 12],
+            }
         }
     }
 }
@@ -1150,6 +1219,8 @@ fn result(
     let result = BorefieldResult {
         layout: b.layout_description.clone(),
         boreholes: n,
+        positions_m: b.positions_m.iter().map(|&(x, y)| [x, y]).collect(),
+        monthly_loads: monthly_loads(&b.loads),
         wall_condition: match b.wall_condition {
             BoreholeWall::UniformTemperature => "uniform-temperature",
             BoreholeWall::UniformHeatFlux => "uniform-heat-flux",
