@@ -57,3 +57,19 @@ mod tests {
         }
     }
 }
+
+/// The months' names, January first.
+pub const MONTH_NAMES: [&str; 12] = [
+    "January",
+    "February",
+    "March",
+    "April",
+    "May",
+    "June",
+    "July",
+    "August",
+    "September",
+    "October",
+    "November",
+    "December",
+];

@@ -165,42 +165,11 @@ impl Loads {
                 peak_duration_s: d,
             }
         };
+        if let Some(g) = ground_side_months(loads) {
+            return monthly(g.from_j, g.to_j, g.peak_from_w, g.peak_to_w, g.peak_duration_s);
+        }
         match loads {
-            GroundLoads::Monthly {
-                from_ground_j,
-                to_ground_j,
-                peak_from_ground_w,
-                peak_to_ground_w,
-                peak_duration_s,
-            } => monthly(
-                *from_ground_j,
-                *to_ground_j,
-                *peak_from_ground_w,
-                *peak_to_ground_w,
-                *peak_duration_s,
-            ),
-            GroundLoads::Building {
-                heating_j,
-                cooling_j,
-                peak_heating_w,
-                peak_cooling_w,
-                cop,
-                eer,
-                peak_duration_s,
-            } => {
-                let energy: [(f64, f64); 12] =
-                    std::array::from_fn(|m| ground_from_building(heating_j[m], cooling_j[m], *cop, *eer));
-                let peak: [(f64, f64); 12] = std::array::from_fn(|m| {
-                    ground_from_building(peak_heating_w[m], peak_cooling_w[m], *cop, *eer)
-                });
-                monthly(
-                    energy.map(|e| e.0),
-                    energy.map(|e| e.1),
-                    peak.map(|p| p.0),
-                    peak.map(|p| p.1),
-                    *peak_duration_s,
-                )
-            }
+            GroundLoads::Monthly { .. } | GroundLoads::Building { .. } => unreachable!("handled above"),
             GroundLoads::Hourly { from_ground_w, .. } => {
                 Loads::Hourly(from_ground_w.iter().map(|p| -p).collect())
             }
@@ -227,23 +196,32 @@ impl Loads {
     }
 }
 
-/// The ground loads month by month, gross, in MWh and kW (an hourly series summed and its
-/// extremes taken per model month; a constant load the same every month).
-pub fn monthly_loads(model: &GroundLoads) -> MonthlyLoadFigures {
-    let mwh = |j: f64| j / (1e6 * HOUR_S);
-    match model {
+/// Monthly loads on the ground side, January first: energies (J) and peaks (W) from and to the
+/// ground; building loads turned into ground loads by the heat pump ([`ground_from_building`]).
+pub struct GroundSideMonths {
+    pub from_j: [f64; 12],
+    pub to_j: [f64; 12],
+    pub peak_from_w: [f64; 12],
+    pub peak_to_w: [f64; 12],
+    pub peak_duration_s: f64,
+}
+
+/// The ground side of monthly or building loads; `None` for hourly and constant loads.
+pub fn ground_side_months(loads: &GroundLoads) -> Option<GroundSideMonths> {
+    match loads {
         GroundLoads::Monthly {
             from_ground_j,
             to_ground_j,
             peak_from_ground_w,
             peak_to_ground_w,
-            ..
-        } => MonthlyLoadFigures {
-            from_ground_mwh: from_ground_j.map(mwh),
-            to_ground_mwh: to_ground_j.map(mwh),
-            peak_from_ground_kw: peak_from_ground_w.map(|w| w / 1e3),
-            peak_to_ground_kw: peak_to_ground_w.map(|w| w / 1e3),
-        },
+            peak_duration_s,
+        } => Some(GroundSideMonths {
+            from_j: *from_ground_j,
+            to_j: *to_ground_j,
+            peak_from_w: *peak_from_ground_w,
+            peak_to_w: *peak_to_ground_w,
+            peak_duration_s: *peak_duration_s,
+        }),
         GroundLoads::Building {
             heating_j,
             cooling_j,
@@ -251,20 +229,39 @@ pub fn monthly_loads(model: &GroundLoads) -> MonthlyLoadFigures {
             peak_cooling_w,
             cop,
             eer,
-            ..
+            peak_duration_s,
         } => {
             let e: [(f64, f64); 12] =
                 std::array::from_fn(|m| ground_from_building(heating_j[m], cooling_j[m], *cop, *eer));
             let p: [(f64, f64); 12] = std::array::from_fn(|m| {
                 ground_from_building(peak_heating_w[m], peak_cooling_w[m], *cop, *eer)
             });
-            MonthlyLoadFigures {
-                from_ground_mwh: e.map(|x| mwh(x.0)),
-                to_ground_mwh: e.map(|x| mwh(x.1)),
-                peak_from_ground_kw: p.map(|x| x.0 / 1e3),
-                peak_to_ground_kw: p.map(|x| x.1 / 1e3),
-            }
+            Some(GroundSideMonths {
+                from_j: e.map(|x| x.0),
+                to_j: e.map(|x| x.1),
+                peak_from_w: p.map(|x| x.0),
+                peak_to_w: p.map(|x| x.1),
+                peak_duration_s: *peak_duration_s,
+            })
         }
+        GroundLoads::Hourly { .. } | GroundLoads::Constant { .. } => None,
+    }
+}
+
+/// The ground loads month by month, gross, in MWh and kW (an hourly series summed and its
+/// extremes taken per model month; a constant load the same every month).
+pub fn monthly_loads(model: &GroundLoads) -> MonthlyLoadFigures {
+    let mwh = |j: f64| j / (1e6 * HOUR_S);
+    if let Some(g) = ground_side_months(model) {
+        return MonthlyLoadFigures {
+            from_ground_mwh: g.from_j.map(mwh),
+            to_ground_mwh: g.to_j.map(mwh),
+            peak_from_ground_kw: g.peak_from_w.map(|w| w / 1e3),
+            peak_to_ground_kw: g.peak_to_w.map(|w| w / 1e3),
+        };
+    }
+    match model {
+        GroundLoads::Monthly { .. } | GroundLoads::Building { .. } => unreachable!("handled above"),
         GroundLoads::Hourly { from_ground_w, .. } => {
             let month = |m: usize| &from_ground_w[m * HOURS_PER_MONTH..(m + 1) * HOURS_PER_MONTH];
             MonthlyLoadFigures {
@@ -310,26 +307,9 @@ pub fn annual_loads(model: &GroundLoads, loads: &Loads) -> AnnualGroundLoads {
                 .count(),
         )
     };
-    let (gross_from, gross_to, netted) = match model {
-        GroundLoads::Monthly {
-            from_ground_j,
-            to_ground_j,
-            ..
-        } => months(from_ground_j, to_ground_j),
-        GroundLoads::Building {
-            heating_j,
-            cooling_j,
-            cop,
-            eer,
-            ..
-        } => {
-            let from: [f64; 12] =
-                std::array::from_fn(|m| ground_from_building(heating_j[m], cooling_j[m], *cop, *eer).0);
-            let to: [f64; 12] =
-                std::array::from_fn(|m| ground_from_building(heating_j[m], cooling_j[m], *cop, *eer).1);
-            months(&from, &to)
-        }
-        GroundLoads::Hourly { .. } | GroundLoads::Constant { .. } => (net_from, net_to, 0),
+    let (gross_from, gross_to, netted) = match ground_side_months(model) {
+        Some(g) => months(&g.from_j, &g.to_j),
+        None => (net_from, net_to, 0),
     };
     AnnualGroundLoads {
         from_ground_mwh: mwh(gross_from),
@@ -1357,20 +1337,7 @@ fn result(
 /// The sentence that says what decided a sized length: which limit, at which temperature, in
 /// which month of which year of the design life.
 fn decision(decided_by: &str, months: &[FluidMonth], b: &Borefield) -> String {
-    const MONTHS: [&str; 12] = [
-        "January",
-        "February",
-        "March",
-        "April",
-        "May",
-        "June",
-        "July",
-        "August",
-        "September",
-        "October",
-        "November",
-        "December",
-    ];
+    use crate::calendar::MONTH_NAMES as MONTHS;
     let when = |m: &FluidMonth| {
         format!(
             "{} of year {}",

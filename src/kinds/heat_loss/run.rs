@@ -692,21 +692,7 @@ fn field(study: &HeatLoss, ground: &Undisturbed, losses: &Losses, soil: &Soil) -
         values_c,
     }
 }
-
-const MONTHS: [&str; 12] = [
-    "January",
-    "February",
-    "March",
-    "April",
-    "May",
-    "June",
-    "July",
-    "August",
-    "September",
-    "October",
-    "November",
-    "December",
-];
+use crate::calendar::MONTH_NAMES as MONTHS;
 
 /// The engine's monthly figures.
 struct NumericalLosses {
