@@ -48,7 +48,7 @@ impl Validator<'_, '_> {
         } else {
             self.out.error(
                 path,
-                format!("{what} must be greater than zero, but {v} was given"),
+                format!("{what} must be greater than zero, but {} was given", round_sig(v)),
             );
             None
         }
@@ -74,7 +74,12 @@ impl Validator<'_, '_> {
         } else {
             self.out.error(
                 path,
-                format!("{what} must lie between {lo} and {hi}, but {v} was given"),
+                format!(
+                    "{what} must lie between {} and {}, but {} was given",
+                    round_sig(lo),
+                    round_sig(hi),
+                    round_sig(v)
+                ),
             );
             None
         }
@@ -233,8 +238,13 @@ pub fn slips(dim: Dimension) -> &'static [Slip] {
     }
 }
 
+/// A number for a message: six significant digits, the shortest form (no 0.0000015854895991…).
 pub fn round_sig(v: f64) -> String {
-    format!("{}", (v * 1e6).round() / 1e6)
+    if !v.is_finite() || v == 0.0 {
+        return format!("{v}");
+    }
+    let rounded: f64 = format!("{v:.5e}").parse().unwrap_or(v);
+    format!("{rounded}")
 }
 
 /// Validates a whole site file. Returns the model when nothing is in error.

@@ -33,7 +33,11 @@ pub fn validate(doc: &CrossSectionDoc, path: &KeyPath, v: &mut Validator) -> Opt
             {
                 v.out.error(
                     &p.key("min"),
-                    format!("the smallest cell size ({a} m) exceeds the largest ({b} m)"),
+                    format!(
+                        "the smallest cell size ({} m) exceeds the largest ({} m)",
+                        round_sig(a),
+                        round_sig(b)
+                    ),
                 );
             }
             (lo, hi)
@@ -118,7 +122,11 @@ fn time(doc: &TimeDoc, path: &KeyPath, v: &mut Validator) -> Option<SectionTime>
             {
                 v.out.error(
                     &path.key("step"),
-                    format!("the step ({s} s) is longer than the duration ({d} s)"),
+                    format!(
+                        "the step ({} h) is longer than the duration ({} h)",
+                        round_sig(s / crate::numerics::time::HOUR_S),
+                        round_sig(d / crate::numerics::time::HOUR_S)
+                    ),
                 );
                 return None;
             }
