@@ -242,3 +242,34 @@ fn values_beyond_anything_physical_are_refused_where_they_are_written() {
         );
     }
 }
+
+/// A field whose g-function would need more segments than burrow solves is refused at its
+/// layout, before any matrix is built: 50 × 50 boreholes at 12 segments are 30,000.
+#[test]
+fn a_borefield_too_large_for_its_g_function_is_refused_at_the_layout() {
+    let text = "site: {name: Hollin Moss}
+climate: {model: annual-wave, mean: 9 °C, amplitude: 8 K, coldest_day: 30}
+ground:
+  layers: [{name: sand, conductivity: 2.0 W/(m K), heat_capacity: 2.2 MJ/(m3 K)}]
+studies:
+  - id: big
+    kind: borefield
+    layout: {rectangle: {rows: 50, columns: 50, spacing: 6 m}}
+    borehole: {active_length: 100 m, top_depth: 1 m, diameter: 140 mm}
+    heat_exchanger:
+      type: single-u
+      pipe: {outer_diameter: 32 mm, wall: 2.9 mm, conductivity: 0.42 W/(m K)}
+      shank_spacing: 70 mm
+      grout_conductivity: 1.5 W/(m K)
+    fluid: {mixture: propylene-glycol, concentration: 25 %, flow_per_borehole: 0.5 l/s}
+    loads: {constant: 400 kW}
+    limits: {min_fluid: -3 °C, max_fluid: 30 °C}
+    design_life: 10 years
+";
+    let e = errors(text);
+    assert!(
+        e.iter()
+            .any(|m| m.contains("studies[0].layout") && m.contains("30000 segments")),
+        "{e:?}"
+    );
+}

@@ -154,6 +154,19 @@ pub fn validate(doc: &BorefieldDoc, path: &KeyPath, v: &mut Validator) -> Option
         }
     };
     let (positions, description) = layout?;
+    if let Some(n) = segments
+        && positions.len() * n > MAX_BOREHOLE_SEGMENTS
+    {
+        v.out.error(
+            &path.key("layout"),
+            format!(
+                "{} boreholes of {n} segments make a g-function of {} segments, more than the {MAX_BOREHOLE_SEGMENTS} burrow solves; give fewer segments (`segments`) or split the field",
+                positions.len(),
+                positions.len() * n
+            ),
+        );
+        return None;
+    }
     let (exchanger, grout, measured) = exchanger?;
     if let (Some(d), Some(s)) = (diameter, min_spacing(&positions))
         && s <= d
@@ -601,6 +614,10 @@ fn peaks_against_means(
 /// with a 6-h peak at full load and the rest idle gives about 120; heat-pump loads rarely reach
 /// 20): common practice, no source.
 const PEAK_TO_MEAN_LIMIT: f64 = 20.0;
+
+/// Most borehole segments (boreholes × segments per borehole) of one field's g-function: the
+/// uniform-wall-temperature system is dense in them (a 20 × 20 field at 12 segments is 4,800).
+pub const MAX_BOREHOLE_SEGMENTS: usize = 12_000;
 
 fn loads(doc: &LoadsDoc, path: &KeyPath, v: &mut Validator) -> Option<GroundLoads> {
     let given = [
