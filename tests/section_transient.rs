@@ -275,3 +275,102 @@ fn insulation_board_and_layers_carry_the_bottom_flux_in_series() {
         assert!((s.field.t_c[iz * nx] - exact).abs() < 1e-9, "z = {z}");
     }
 }
+
+/// A moist silt (from memory: 30 % water by volume, Kersten-like conductivities):
+/// k 1.4 / 2.0 W/(m K) unfrozen / frozen, C 2.6 / 1.9 MJ/(m³ K), latent heat
+/// 0.30 × 1000 kg/m³ × 333.55 kJ/kg (IAPWS), water freezing over the default 0.5 K.
+fn silt() -> Material {
+    Material::new(1.4, 2.0, 2.6e6, 1.9e6, 0.30 * 333.55e6, 0.5).unwrap()
+}
+
+/// Neumann's two-phase problem for [`silt`]: unfrozen at 4 °C, the surface held at
+/// −12 °C from t = 0, freezing point at the middle of the freezing interval.
+fn silt_neumann() -> burrow::physics::frost::NeumannFreezing {
+    let m = silt();
+    burrow::physics::frost::NeumannFreezing {
+        k_frozen_w_mk: m.frozen_conductivity(),
+        c_frozen_j_m3k: m.frozen_heat_capacity(),
+        k_unfrozen_w_mk: m.unfrozen_conductivity(),
+        c_unfrozen_j_m3k: m.unfrozen_heat_capacity(),
+        latent_j_per_m3: m.latent_heat_j_per_m3(),
+        initial_c: 4.0,
+        surface_c: -12.0,
+        freezing_point_c: -0.5 * m.freezing_interval_k(),
+    }
+}
+
+/// The engine's front (frozen thickness Σ f·Δz) and first ice (0 °C isotherm)
+/// after `days`, on uniform cells of `cell_m`, in a 12 m column under a fixed
+/// surface temperature, with the given material and initial temperature.
+fn front_run(
+    material: Material,
+    initial_c: f64,
+    surface_c: f64,
+    cell_m: f64,
+    dt: f64,
+    days: f64,
+) -> (f64, f64, f64) {
+    let model = SectionModel::new(
+        Geometry::Planar,
+        4.0 * cell_m,
+        12.0,
+        vec![SoilLayer {
+            thickness_m: 12.0,
+            material,
+        }],
+        Box::new(move |_| surface_c),
+    );
+    let steps = (days * DAY / dt).round() as usize;
+    let mut opts = TransientOptions::new(dt, steps, Initial::Uniform(initial_c));
+    opts.grid = GridOptions {
+        surface_cell_m: cell_m,
+        min_cell_m: cell_m,
+        max_cell_m: cell_m,
+        growth_ratio: 1.1,
+        cells_across_pipe: 10,
+    };
+    opts.solver = SolverKind::Iterative;
+    let s = solve_transient(&model, &opts).unwrap();
+    (
+        *s.front_depth_m.last().unwrap(),
+        *s.frost_depth_m.last().unwrap(),
+        s.energy_balance_relative_error,
+    )
+}
+
+#[test]
+fn enthalpy_front_follows_neumann_two_phase_solution_on_coarse_and_fine_cells() {
+    // Carslaw & Jaeger 1959 §11.2, Neumann's solution X = 2ξ√(α₁t) (burrow's
+    // `physics::frost::neumann`, itself checked against SciPy in tests/frost.rs)
+    // with the freezing point at the middle of the 0.5 K freezing interval.
+    let expected = silt_neumann().depth_m(60.0 * DAY).unwrap();
+    for (cell_m, dt, tolerance) in [(0.2, 3600.0, 0.03), (0.05, 3600.0, 0.01)] {
+        let (front, first_ice, balance) = front_run(silt(), 4.0, -12.0, cell_m, dt, 60.0);
+        let error = front / expected - 1.0;
+        println!(
+            "cells {cell_m} m: front {front:.4} m vs Neumann {expected:.4} m ({:+.2} %), first ice {first_ice:.4} m, balance {balance:.1e}",
+            100.0 * error
+        );
+        assert!(error.abs() < tolerance, "{error}");
+        assert!(balance < 1e-10, "{balance}");
+    }
+}
+
+#[test]
+fn enthalpy_front_follows_stefan_without_sensible_heat() {
+    // Stefan's formula X = √(2 k₁ (T_f − T_s) t / L) (Carslaw & Jaeger 1959 §11.2,
+    // the limit of Neumann's solution as the heat capacities vanish): a soil at its
+    // melting edge (0 °C, so no heat comes from below) with capacities 1/1000 of a
+    // soil's; the front of the 0.5 K interval at its middle, T_f = −0.25 °C.
+    let material = Material::new(1.4, 2.0, 2.6e3, 1.9e3, 0.30 * 333.55e6, 0.5).unwrap();
+    let (t_f, t_s, t) = (-0.25, -12.0, 30.0 * DAY);
+    let expected = (2.0 * 2.0 * (t_f - t_s) * t / material.latent_heat_j_per_m3()).sqrt();
+    let (front, _, balance) = front_run(material, 0.0, t_s, 0.05, 3600.0, 30.0);
+    let error = front / expected - 1.0;
+    println!(
+        "Stefan: front {front:.4} m vs {expected:.4} m ({:+.2} %)",
+        100.0 * error
+    );
+    assert!(error.abs() < 0.01, "{error}");
+    assert!(balance < 1e-10, "{balance}");
+}

@@ -10,9 +10,16 @@ pub struct CrossSectionResult {
     /// Heat from each pipe to the ground, positive.
     pub pipes: Vec<SectionPipeFigures>,
     pub probes: Vec<ProbeFigures>,
-    /// Deepest 0 °C isotherm at the section's edge column (away from the pipes), m.
+    /// Deepest 0 °C isotherm at the section's edge column (away from the pipes), m:
+    /// "first ice", interpolated between cell centres.
     pub max_frost_depth_m: Option<f64>,
     pub final_frost_depth_m: Option<f64>,
+    /// The enthalpy method's front at the edge column, m: the frozen thickness
+    /// Σ f·Δz of its cells (f the frozen fraction of the water), which locates the
+    /// front inside its cell (exact for a front from the surface); largest over
+    /// the run and at its end. Null for a steady section.
+    pub max_front_depth_m: Option<f64>,
+    pub final_front_depth_m: Option<f64>,
     /// |heat in − heat out − Δstored| / throughput over the run.
     pub energy_balance_relative_error: f64,
     pub steady: bool,

@@ -145,6 +145,8 @@ fn steady_result(
         probes,
         max_frost_depth_m: None,
         final_frost_depth_m: None,
+        max_front_depth_m: None,
+        final_front_depth_m: None,
         energy_balance_relative_error: sol.energy_balance_relative_error,
         steady: true,
         series: SectionSeries::default(),
@@ -221,6 +223,8 @@ fn transient_result(
             .collect(),
         max_frost_depth_m: Some(sol.frost_depth_m.iter().cloned().fold(0.0, f64::max)),
         final_frost_depth_m: Some(last(&sol.frost_depth_m)),
+        max_front_depth_m: Some(sol.front_depth_m.iter().cloned().fold(0.0, f64::max)),
+        final_front_depth_m: Some(last(&sol.front_depth_m)),
         energy_balance_relative_error: sol.energy_balance_relative_error,
         steady: false,
         series: SectionSeries {

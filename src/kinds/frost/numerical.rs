@@ -159,6 +159,10 @@ pub struct PipeRun {
     /// Days from the season start and the free-field frost depth (m) at every step.
     pub days: Vec<f64>,
     pub frost_depth_m: Vec<f64>,
+    /// The enthalpy method's free-field front (frozen thickness Σ f·Δz of the edge
+    /// column): deepest in the design season and at its end, m.
+    pub free_field_front_depth_m: f64,
+    pub final_front_depth_m: f64,
     /// Lowest pipe-wall (outer surface) temperature of the design season, °C.
     pub wall_min_c: f64,
     /// Lowest free-field ground temperature at the pipe's centre depth, °C.
@@ -274,6 +278,8 @@ pub fn winter_run(
         deepest_day: (t_max - design_start) / DAY_S,
         days: run.times_s.iter().map(|t| (t - design_start) / DAY_S).collect(),
         frost_depth_m: run.frost_depth_m.clone(),
+        free_field_front_depth_m: run.front_depth_m.iter().copied().fold(0.0, f64::max),
+        final_front_depth_m: run.front_depth_m.last().copied().unwrap_or(0.0),
         wall_min_c: run.pipes.first().map_or(f64::NAN, |s| min(&s.wall_c)),
         ground_min_at_pipe_c: run.probes_c.first().map_or(f64::NAN, |v| min(v)),
         field,

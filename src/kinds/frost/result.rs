@@ -78,10 +78,17 @@ pub struct FrostNumericalFigures {
     /// Factor on the typical year's below-zero surface temperatures that gives the design
     /// season the design freezing index (1 when it is the typical year's own).
     pub winter_scale: f64,
-    /// Deepest free-field frost (0 °C isotherm at the section edge, away from the pipe), m.
+    /// Deepest free-field frost (0 °C isotherm at the section edge, away from the pipe), m:
+    /// "first ice", interpolated between cell centres. The governing depth uses this one (the
+    /// deeper, conservative definition).
     pub free_field_frost_depth_m: f64,
     /// Days from the season start of the deepest frost.
     pub deepest_frost_day: f64,
+    /// The enthalpy method's free-field front at the same edge: the frozen thickness Σ f·Δz
+    /// of the column (f the frozen fraction of the water), located inside its cell, hence
+    /// accurate on coarse cells; deepest over the design season and at its end, m.
+    pub max_front_depth_m: f64,
+    pub final_front_depth_m: f64,
     /// Lowest pipe-wall (outer surface) temperature of the design season, °C.
     pub pipe_min_wall_temperature_c: Option<f64>,
     /// Lowest free-field ground temperature at the pipe's centre depth, °C.

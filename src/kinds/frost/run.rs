@@ -288,6 +288,8 @@ fn numerical_figures(
         winter_scale: winter.map_or(1.0, |w| w.scale),
         free_field_frost_depth_m: r.free_field_depth_m,
         deepest_frost_day: r.deepest_day,
+        max_front_depth_m: r.free_field_front_depth_m,
+        final_front_depth_m: r.final_front_depth_m,
         pipe_min_wall_temperature_c: circle.map(|_| r.wall_min_c),
         ground_min_at_pipe_c: circle.map(|_| r.ground_min_at_pipe_c),
         energy_balance_relative_error: r.energy_balance_relative_error,

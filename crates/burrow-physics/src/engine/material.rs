@@ -51,6 +51,12 @@ pub struct Material {
     c_mushy: f64,
     latent: f64,
     interval: f64,
+    /// Reciprocals of the unfrozen, mushy (apparent) and frozen capacities and
+    /// `H` at full freezing, for the inverse of H(T) in the time loop.
+    inv_c_unfrozen: f64,
+    inv_c_apparent: f64,
+    inv_c_frozen: f64,
+    h_solidus: f64,
 }
 
 impl Material {
@@ -115,14 +121,20 @@ impl Material {
         latent_heat_j_per_m3: f64,
         freezing_interval_k: f64,
     ) -> Self {
+        let c_mushy = 0.5 * (heat_capacity + frozen_heat_capacity);
+        let c_apparent = c_mushy + latent_heat_j_per_m3 / freezing_interval_k;
         Self {
             k_unfrozen: conductivity,
             k_frozen: frozen_conductivity,
             c_unfrozen: heat_capacity,
             c_frozen: frozen_heat_capacity,
-            c_mushy: 0.5 * (heat_capacity + frozen_heat_capacity),
+            c_mushy,
             latent: latent_heat_j_per_m3,
             interval: freezing_interval_k,
+            inv_c_unfrozen: 1.0 / heat_capacity,
+            inv_c_apparent: 1.0 / c_apparent,
+            inv_c_frozen: 1.0 / frozen_heat_capacity,
+            h_solidus: -freezing_interval_k * c_apparent,
         }
     }
 
@@ -191,11 +203,11 @@ impl Material {
     /// Exact inverse of [`Self::enthalpy_j_per_m3`]: temperature (°C) for `h_j_per_m3`.
     pub fn temperature_c(&self, h_j_per_m3: f64) -> f64 {
         if h_j_per_m3 >= 0.0 {
-            h_j_per_m3 / self.c_unfrozen
-        } else if h_j_per_m3 >= self.h_solidus() {
-            h_j_per_m3 / self.c_apparent_mushy()
+            h_j_per_m3 * self.inv_c_unfrozen
+        } else if h_j_per_m3 >= self.h_solidus {
+            h_j_per_m3 * self.inv_c_apparent
         } else {
-            -self.interval + (h_j_per_m3 - self.h_solidus()) / self.c_frozen
+            -self.interval + (h_j_per_m3 - self.h_solidus) * self.inv_c_frozen
         }
     }
 
