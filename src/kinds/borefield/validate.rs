@@ -565,6 +565,23 @@ fn peak_duration(q: &Option<&Q<Time>>, path: &KeyPath, v: &mut Validator) -> Opt
     }
 }
 
+/// One direction of monthly loads: twelve energies at `base.key`, the optional twelve peaks at
+/// `peak.key`, and the peaks held against the months' mean powers.
+fn one_direction(
+    energies: &[Q<Energy>],
+    peaks: Option<&[Q<Power>]>,
+    (base, peak, key): (&KeyPath, &KeyPath, &str),
+    what: &str,
+    v: &mut Validator,
+) -> (Option<[f64; 12]>, Option<[f64; 12]>) {
+    let e = twelve(energies, &base.key(key), v, what);
+    let p = optional_twelve(&peaks, &peak.key(key), v, &format!("peak {what}"));
+    if let (Some(e), Some(p)) = (e, p) {
+        peaks_against_means(&e, &p, &base.key(key), &peak.key(key), v);
+    }
+    (e, p)
+}
+
 /// A monthly peak is the month's highest load: one below the month's mean power is an error, and
 /// one more than [`PEAK_TO_MEAN_LIMIT`] times it is a caution — or an error naming MWh when
 /// the energies read as MWh would explain it (a peak in kW against energies meant as MWh).
@@ -638,29 +655,23 @@ fn loads(doc: &LoadsDoc, path: &KeyPath, v: &mut Validator) -> Option<GroundLoad
     }
     if let Some(m) = &doc.monthly {
         let p = path.key("monthly");
-        let extracted = twelve(&m.from_ground, &p.key("from_ground"), v, "heat from the ground");
-        let injected = twelve(&m.to_ground, &p.key("to_ground"), v, "heat to the ground");
         let pk = p.key("peak");
         let peak = m.peak.as_ref();
-        let pe = optional_twelve(
-            &peak.and_then(|k| k.from_ground.as_deref()),
-            &pk.key("from_ground"),
+        let (extracted, pe) = one_direction(
+            &m.from_ground,
+            peak.and_then(|k| k.from_ground.as_deref()),
+            (&p, &pk, "from_ground"),
+            "heat from the ground",
             v,
-            "peak from the ground",
         );
-        let pi = optional_twelve(
-            &peak.and_then(|k| k.to_ground.as_deref()),
-            &pk.key("to_ground"),
+        let (injected, pi) = one_direction(
+            &m.to_ground,
+            peak.and_then(|k| k.to_ground.as_deref()),
+            (&p, &pk, "to_ground"),
+            "heat to the ground",
             v,
-            "peak to the ground",
         );
         let duration = peak_duration(&peak.and_then(|k| k.duration.as_ref()), &pk.key("duration"), v);
-        if let (Some(e), Some(pe)) = (extracted, pe) {
-            peaks_against_means(&e, &pe, &p.key("from_ground"), &pk.key("from_ground"), v);
-        }
-        if let (Some(e), Some(pi)) = (injected, pi) {
-            peaks_against_means(&e, &pi, &p.key("to_ground"), &pk.key("to_ground"), v);
-        }
         return Some(GroundLoads::Monthly {
             from_ground_j: extracted?,
             to_ground_j: injected?,
@@ -671,31 +682,25 @@ fn loads(doc: &LoadsDoc, path: &KeyPath, v: &mut Validator) -> Option<GroundLoad
     }
     if let Some(b) = &doc.building {
         let p = path.key("building");
-        let heating = twelve(&b.heating, &p.key("heating"), v, "heating");
-        let cooling = twelve(&b.cooling, &p.key("cooling"), v, "cooling");
         let pk = p.key("peak");
         let peak = b.peak.as_ref();
-        let ph = optional_twelve(
-            &peak.and_then(|k| k.heating.as_deref()),
-            &pk.key("heating"),
+        let (heating, ph) = one_direction(
+            &b.heating,
+            peak.and_then(|k| k.heating.as_deref()),
+            (&p, &pk, "heating"),
+            "heating",
             v,
-            "peak heating",
         );
-        let pc = optional_twelve(
-            &peak.and_then(|k| k.cooling.as_deref()),
-            &pk.key("cooling"),
+        let (cooling, pc) = one_direction(
+            &b.cooling,
+            peak.and_then(|k| k.cooling.as_deref()),
+            (&p, &pk, "cooling"),
+            "cooling",
             v,
-            "peak cooling",
         );
         let cop = v.within(Some(b.cop), (1.0, 20.0), &p.key("cop"), "the COP");
         let eer = v.within(Some(b.eer), (1.0, 40.0), &p.key("eer"), "the EER");
         let duration = peak_duration(&peak.and_then(|k| k.duration.as_ref()), &pk.key("duration"), v);
-        if let (Some(e), Some(ph)) = (heating, ph) {
-            peaks_against_means(&e, &ph, &p.key("heating"), &pk.key("heating"), v);
-        }
-        if let (Some(e), Some(pc)) = (cooling, pc) {
-            peaks_against_means(&e, &pc, &p.key("cooling"), &pk.key("cooling"), v);
-        }
         return Some(GroundLoads::Building {
             heating_j: heating?,
             cooling_j: cooling?,
