@@ -127,3 +127,20 @@ fn other_values_outside_the_range_are_cautions_and_far_ones_errors() {
         "far outside",
     );
 }
+
+/// A data file whose header names a unit other than the one its values are read in is refused:
+/// a daily °F series read as °C once gave a freezing index of 3.5 °C·d, and an hourly file headed
+/// `load_kW` was read as W.
+#[test]
+fn a_data_file_whose_header_names_another_unit_is_an_error() {
+    use burrow::site::series_file::{TemperatureUnit, parse, parse_hourly_loads};
+    let series = "date,air_F\n2031-01-01,23\n2031-01-02,25\n";
+    let e = parse(series, "mast.csv", None, TemperatureUnit::Celsius).unwrap_err();
+    assert!(e.contains("names °F") && e.contains("unit: °F"), "{e}");
+    assert!(parse(series, "mast.csv", None, TemperatureUnit::Fahrenheit).is_ok());
+    let loads = format!("load_kW\n{}", "1.5\n".repeat(8760));
+    let e = parse_hourly_loads(&loads, "loads.csv").unwrap_err();
+    assert!(e.contains("names kW") && e.contains("read in W"), "{e}");
+    let watts = format!("load_w\n{}", "1500\n".repeat(8760));
+    assert!(parse_hourly_loads(&watts, "loads.csv").is_ok());
+}

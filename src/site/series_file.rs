@@ -26,6 +26,15 @@ impl TemperatureUnit {
         }
     }
 
+    /// The unit's symbol as the site file writes it.
+    pub fn symbol(self) -> &'static str {
+        match self {
+            Self::Celsius => "°C",
+            Self::Fahrenheit => "°F",
+            Self::Kelvin => "K",
+        }
+    }
+
     fn to_celsius(self, t: f64) -> f64 {
         match self {
             Self::Celsius => t,
@@ -89,6 +98,17 @@ pub fn parse(text: &str, name: &str, column: Option<&str>, unit: TemperatureUnit
             )
         })?,
     };
+    if let Some(named) = header_temperature_unit(&headers[col])
+        && named != unit
+    {
+        return Err(format!(
+            "the temperature file `{name}` heads its column `{}`, which names {}, but the temperatures are read as {}; give `unit: {}` in the climate",
+            headers[col],
+            named.symbol(),
+            unit.symbol(),
+            named.symbol()
+        ));
+    }
     let mut times: Vec<f64> = Vec::new();
     let mut temps = Vec::new();
     let mut first_date = None;
@@ -231,7 +251,13 @@ pub fn parse_hourly_loads(text: &str, name: &str) -> Result<Vec<f64>, String> {
         let first = trimmed.split([',', ';', '\t']).next().unwrap_or("").trim();
         match first.parse::<f64>() {
             Ok(v) if v.is_finite() => values.push(v),
-            _ if values.is_empty() && first.parse::<f64>().is_err() && i == first_data_line(text) => {}
+            _ if values.is_empty() && first.parse::<f64>().is_err() && i == first_data_line(text) => {
+                if let Some(u) = header_power_unit(first) {
+                    return Err(format!(
+                        "the load file `{name}` heads its column `{first}`, which names {u}, but hourly loads are read in W; convert the file to W"
+                    ));
+                }
+            }
             _ => {
                 return Err(format!(
                     "line {} of `{name}`: `{first}` is not a load in W (a finite number is needed in the first column; fill gaps before use)",
@@ -247,6 +273,35 @@ pub fn parse_hourly_loads(text: &str, name: &str) -> Result<Vec<f64>, String> {
         ));
     }
     Ok(values)
+}
+
+/// The temperature unit a column header names, if it names one as a word of its own
+/// (`air_F`, `T (°F)`, `temp_degC`, `air K`): the unit a file's author wrote down.
+fn header_temperature_unit(header: &str) -> Option<TemperatureUnit> {
+    let words: Vec<String> = header
+        .split(|c: char| !(c.is_alphanumeric() || c == '°'))
+        .filter(|w| !w.is_empty())
+        .map(str::to_lowercase)
+        .collect();
+    words.iter().rev().find_map(|w| match w.as_str() {
+        "°c" | "degc" | "c" | "celsius" => Some(TemperatureUnit::Celsius),
+        "°f" | "degf" | "f" | "fahrenheit" => Some(TemperatureUnit::Fahrenheit),
+        "k" | "kelvin" => Some(TemperatureUnit::Kelvin),
+        _ => None,
+    })
+}
+
+/// The power unit a load file's header names, if it names one other than W (`load_kW`).
+fn header_power_unit(header: &str) -> Option<&'static str> {
+    header
+        .split(|c: char| !c.is_alphanumeric())
+        .filter(|w| !w.is_empty())
+        .find_map(|w| match w {
+            "kW" | "kw" => Some("kW"),
+            "MW" => Some("MW"),
+            "Btu" | "btuh" | "BTUh" => Some("Btu/h"),
+            _ => None,
+        })
 }
 
 /// Index of the first line that is neither blank nor a `#` comment (where a header may stand).
