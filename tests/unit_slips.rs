@@ -148,3 +148,24 @@ fn a_data_file_whose_header_names_another_unit_is_an_error() {
     let watts = format!("load_w\n{}", "1500\n".repeat(8760));
     assert!(parse_hourly_loads(&watts, "loads.csv").is_ok());
 }
+
+/// A field's yearly heat per metre of borehole far below the usual tens to a couple of hundred
+/// kWh (common practice, no source) that energies in MWh would explain is an error; 121 MWh over
+/// 4 × 120 m is 252 kWh/m, inside; 121 kWh is 0.25 kWh/m.
+#[test]
+fn a_yearly_heat_per_metre_that_mwh_would_explain_is_an_error() {
+    let no_peaks = SITE.replace(
+        "        peak: {from_ground: [60 kW, 58 kW, 50 kW, 40 kW, 25 kW, 10 kW, 5 kW, 5 kW, 20 kW, 35 kW, 50 kW, 58 kW]}\n",
+        "",
+    );
+    assert!(problems(&no_peaks).is_empty(), "{:?}", problems(&no_peaks));
+    let kwh = no_peaks.replace(
+        "[16 MWh, 14 MWh, 11 MWh, 7 MWh, 3 MWh, 1 MWh, 0.5 MWh, 0.5 MWh, 2 MWh, 6 MWh, 11 MWh, 15 MWh]",
+        "[16, 14, 11, 7, 3, 1, 0.5, 0.5, 2, 6, 11, 15]",
+    );
+    error_at(
+        &kwh,
+        "studies[1].loads",
+        "did you mean the monthly energies in MWh",
+    );
+}

@@ -179,6 +179,11 @@ pub fn validate(doc: &BorefieldDoc, path: &KeyPath, v: &mut Validator) -> Option
         );
         return None;
     }
+    if let (Some(l), Some(h)) = (&loads, length)
+        && doc.find.is_none()
+    {
+        specific_energy(l, positions.len() as f64 * h, &path.key("loads"), v);
+    }
     Some(Borefield {
         positions_m: positions,
         layout_description: description,
@@ -631,6 +636,43 @@ fn peaks_against_means(
 /// with a 6-h peak at full load and the rest idle gives about 120; heat-pump loads rarely reach
 /// 20): common practice, no source.
 const PEAK_TO_MEAN_LIMIT: f64 = 20.0;
+
+/// A field's yearly heat per metre of borehole, kWh/(m a), usually lies in tens to a couple of
+/// hundred (about 50–150 for heating-only houses in moist ground; common practice, no source):
+/// outside 10–300 a caution, and an error naming MWh when energies read as MWh would put it in.
+const SPECIFIC_ENERGY_KWH_PER_M: (f64, f64) = (10.0, 300.0);
+
+fn specific_energy(loads: &GroundLoads, metres: f64, path: &KeyPath, v: &mut Validator) {
+    let Some(g) = super::run::ground_side_months(loads) else {
+        return;
+    };
+    let kwh = |j: f64| j / 3.6e6;
+    let yearly = kwh(g.from_j.iter().sum::<f64>()).max(kwh(g.to_j.iter().sum::<f64>()));
+    if yearly <= 0.0 || metres <= 0.0 {
+        return;
+    }
+    let per_m = yearly / metres;
+    let (lo, hi) = SPECIFIC_ENERGY_KWH_PER_M;
+    if (lo..=hi).contains(&per_m) {
+        return;
+    }
+    let shown = crate::site::validate::round_sig((per_m * 10.0).round() / 10.0);
+    if per_m < lo && (lo..=hi).contains(&(per_m * 1e3)) {
+        v.out.error(
+            path,
+            format!(
+                "the loads give {shown} kWh a year per metre of borehole, far below the usual {lo}–{hi}; did you mean the monthly energies in MWh (a plain number is kWh)?"
+            ),
+        );
+    } else {
+        v.out.warning(
+            path,
+            format!(
+                "the loads give {shown} kWh a year per metre of borehole, outside the usual {lo}–{hi}; check the loads, the number of boreholes and their length"
+            ),
+        );
+    }
+}
 
 /// Most borehole segments (boreholes × segments per borehole) of one field's g-function: the
 /// uniform-wall-temperature system is dense in them (a 20 × 20 field at 12 segments is 4,800).
