@@ -9,6 +9,20 @@
 //! one folder, its `pub mod` line and one line in that list (DEVELOPERS.md, "How to add a study
 //! kind").
 
+/// Implements [`CommonKeys`] for document types with `id` and `method` fields.
+macro_rules! common_keys {
+    ($($doc:ty),+ $(,)?) => {
+        $(impl crate::kinds::CommonKeys for $doc {
+            fn id(&self) -> &str {
+                &self.id
+            }
+            fn method(&self) -> Option<crate::site::doc::MethodDoc> {
+                self.method
+            }
+        })+
+    };
+}
+
 pub mod engine_model;
 
 // The kinds' folders (declared here rather than inside the macro so that rustfmt sees them).
@@ -42,6 +56,12 @@ pub struct Outcome<R> {
     pub assumptions: Vec<Assumption>,
 }
 
+/// The keys every study's document has: its `id` and its `method`.
+pub trait CommonKeys {
+    fn id(&self) -> &str;
+    fn method(&self) -> Option<MethodDoc>;
+}
+
 /// The contract every study kind implements.
 pub trait Kind {
     /// The kind's name as the site file spells it (`kind: heat-loss`).
@@ -50,14 +70,18 @@ pub trait Kind {
     const METHODS: &'static [Method];
     const DEFAULT_METHOD: Method;
     /// The study's keys as written (serde + schemars; doc comments become the schema's text).
-    type Doc;
+    type Doc: CommonKeys;
     /// The validated study in model units.
     type Model;
     /// The study's figures as `results.json` holds them.
     type Result;
 
-    fn id(doc: &Self::Doc) -> &str;
-    fn method(doc: &Self::Doc) -> Option<MethodDoc>;
+    fn id(doc: &Self::Doc) -> &str {
+        doc.id()
+    }
+    fn method(doc: &Self::Doc) -> Option<MethodDoc> {
+        doc.method()
+    }
     /// Validates the study's own keys; every problem is reported to `v`.
     fn validate(doc: &Self::Doc, path: &KeyPath, v: &mut Validator) -> Option<Self::Model>;
     /// The deepest point the study reaches (a borehole bottom, a model domain), m: the

@@ -17,10 +17,11 @@ use crate::model::Method;
 use crate::report::Figure;
 use crate::results::{DecisiveFigure, StudyResult, Worse};
 use crate::site::diagnostic::KeyPath;
-use crate::site::doc::MethodDoc;
 use crate::site::validate::Validator;
 
 pub struct BorefieldKind;
+
+common_keys!(doc::BorefieldDoc);
 
 impl Kind for BorefieldKind {
     const NAME: &'static str = "borefield";
@@ -29,14 +30,6 @@ impl Kind for BorefieldKind {
     type Doc = doc::BorefieldDoc;
     type Model = Borefield;
     type Result = BorefieldResult;
-
-    fn id(doc: &Self::Doc) -> &str {
-        &doc.id
-    }
-
-    fn method(doc: &Self::Doc) -> Option<MethodDoc> {
-        doc.method
-    }
 
     fn validate(doc: &Self::Doc, path: &KeyPath, v: &mut Validator) -> Option<Self::Model> {
         validate::validate(doc, path, v)

@@ -16,10 +16,11 @@ use crate::model::Method;
 use crate::report::Figure;
 use crate::results::{DecisiveFigure, StudyResult, Worse};
 use crate::site::diagnostic::KeyPath;
-use crate::site::doc::MethodDoc;
 use crate::site::validate::Validator;
 
 pub struct CrossSectionKind;
+
+common_keys!(doc::CrossSectionDoc);
 
 impl Kind for CrossSectionKind {
     const NAME: &'static str = "cross-section";
@@ -28,14 +29,6 @@ impl Kind for CrossSectionKind {
     type Doc = doc::CrossSectionDoc;
     type Model = CrossSection;
     type Result = CrossSectionResult;
-
-    fn id(doc: &Self::Doc) -> &str {
-        &doc.id
-    }
-
-    fn method(doc: &Self::Doc) -> Option<MethodDoc> {
-        doc.method
-    }
 
     fn validate(doc: &Self::Doc, path: &KeyPath, v: &mut Validator) -> Option<Self::Model> {
         validate::validate(doc, path, v)

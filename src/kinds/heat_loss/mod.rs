@@ -18,10 +18,11 @@ use crate::model::Method;
 use crate::report::Figure;
 use crate::results::{Assumption, Check, DecisiveFigure, StudyResult, Worse};
 use crate::site::diagnostic::KeyPath;
-use crate::site::doc::MethodDoc;
 use crate::site::validate::Validator;
 
 pub struct HeatLossKind;
+
+common_keys!(doc::HeatLossDoc);
 
 impl Kind for HeatLossKind {
     const NAME: &'static str = "heat-loss";
@@ -30,14 +31,6 @@ impl Kind for HeatLossKind {
     type Doc = doc::HeatLossDoc;
     type Model = HeatLoss;
     type Result = HeatLossResult;
-
-    fn id(doc: &Self::Doc) -> &str {
-        &doc.id
-    }
-
-    fn method(doc: &Self::Doc) -> Option<MethodDoc> {
-        doc.method
-    }
 
     fn validate(doc: &Self::Doc, path: &KeyPath, v: &mut Validator) -> Option<Self::Model> {
         validate::validate(doc, path, v)
